@@ -1,5 +1,5 @@
 import { and, eq } from 'drizzle-orm';
-import type { Database } from '../db/client';
+import type { Executor } from '../db/client';
 import { memberships, users } from '../db/schema';
 import { getTeamBySlug, insertMembership, insertTeam } from '../db/queries/teams';
 import { upsertUserByEmail } from '../db/queries/users';
@@ -28,7 +28,7 @@ export const DEMO_TEAMS: { slug: string; name: string; people: { email: string; 
 ];
 
 /** Inserts the demo people and teams when missing; running it again changes nothing. */
-export async function seedDemo(db: Database): Promise<{ created: number }> {
+export async function seedDemo(db: Executor): Promise<{ created: number }> {
 	return db.transaction(async (tx) => {
 		let created = 0;
 		const admin = await upsertUserByEmail(tx, DEMO_ADMIN.email, DEMO_ADMIN.name);
