@@ -26,6 +26,7 @@ export default defineConfig({
 		timeout: 60_000,
 		env: {
 			PORT: String(port),
+			ORIGIN: `http://127.0.0.1:${port}`,
 			HOST: '127.0.0.1',
 			DATABASE_URL: process.env.DATABASE_URL ?? '',
 			MAIL_FAKE_PORT: process.env.MAIL_FAKE_PORT ?? '2535',

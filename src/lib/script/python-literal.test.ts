@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { pyComment, pyLiteral, PyLiteralError, pyNumber, pyStr } from './python-literal';
+import { isEscapedCodePoint, pyComment, pyLiteral, PyLiteralError, pyNumber, pyStr } from './python-literal';
 import { runPythonJson } from './python-test-harness';
 
 /** mulberry32, a small seeded generator: the corpus is random-looking but fixed. */
@@ -99,6 +99,32 @@ describe('pyStr', () => {
 		expect(pyStr('\u202e\u2066\u200f\u200b\ufeff')).toBe('"\\u202e\\u2066\\u200f\\u200b\\ufeff"');
 		expect(pyStr('\ud800')).toBe('"\\ud800"');
 		expect(pyStr('\udfffa')).toBe('"\\udfffa"');
+	});
+
+	it('escapes every control, format, separator, non-ASCII space, private-use and surrogate code point', () => {
+		// The Unicode Character Database's general categories as python3's unicodedata has them:
+		// Cc, Cf, Zl, Zp, Zs (but U+0020), Co and Cs, plus the noncharacters (Unicode §23.7).
+		const script = String.raw`
+import json, unicodedata
+ranges, start, prev = [], None, None
+for cp in range(0x110000):
+    cat = unicodedata.category(chr(cp))
+    hit = cat in ("Cc", "Cf", "Zl", "Zp", "Co", "Cs") or (cat == "Zs" and cp != 0x20) or (0xFDD0 <= cp <= 0xFDEF) or (cp & 0xFFFE) == 0xFFFE
+    if hit and start is None:
+        start = cp
+    if not hit and start is not None:
+        ranges.append([start, cp - 1]); start = None
+if start is not None:
+    ranges.append([start, 0x10FFFF])
+print(json.dumps({"version": unicodedata.unidata_version, "ranges": ranges}))
+`;
+		const { ranges } = runPythonJson(script, null) as { version: string; ranges: [number, number][] };
+		const missed: string[] = [];
+		for (const [lo, hi] of ranges) {
+			for (let cp = lo; cp <= hi; cp++) if (!isEscapedCodePoint(cp)) missed.push(cp.toString(16));
+		}
+		expect(ranges.length).toBeGreaterThan(20);
+		expect(missed).toEqual([]);
 	});
 
 	it('keeps printable non-ASCII text and astral characters as they are', () => {

@@ -6,10 +6,10 @@
  * Choices (documented here because reviewers diff the output):
  * - Strings use double quotes. Printable characters stay as they are (the program is
  *   UTF-8); everything a reader could not see or that could end a line or reorder the
- *   display is escaped: C0/C1 controls, DEL, U+2028/U+2029, format characters (bidi
- *   controls, zero-width characters, BOM, soft hyphen), non-ASCII spaces, private-use
- *   and unassigned code points, and lone surrogates (as `\udXXX`, which Python keeps
- *   as the same lone surrogate).
+ *   display is escaped (see ESCAPED_RANGES): C0/C1 controls, DEL, U+2028/U+2029, bidi
+ *   controls, zero-width characters, the BOM, non-ASCII spaces, private-use code points,
+ *   noncharacters, and lone surrogates (as `\udXXX`, which Python keeps as the same lone
+ *   surrogate).
  * - JS numbers are all doubles. Integral values in the safe-integer range
  *   (|v| <= 2**53 - 1) are written as Python ints, because every such int converts
  *   to exactly that double and reads as an int to a reviewer. Larger integral values
@@ -31,11 +31,38 @@ export class PyLiteralError extends Error {
 	}
 }
 
-// Characters that must never appear raw: controls (Cc), format characters such as
-// bidi overrides and zero-width joiners (Cf), line/paragraph separators (Zl, Zp),
-// spaces other than U+0020 (Zs minus space), surrogates (Cs: lone halves only, since
-// the `u` flag pairs valid ones), private use (Co) and unassigned code points (Cn).
-const INVISIBLE = /[\p{Cc}\p{Cf}\p{Zl}\p{Zp}\p{Cs}\p{Co}\p{Cn}]|(?! )\p{Zs}/u;
+/*
+ * Code points written as escapes, as a fixed table rather than Unicode property
+ * classes: property classes change with the runtime's Unicode version, and the same
+ * recipe must render to the same bytes on every Node release. The table covers the
+ * controls (C0, DEL, C1), every space but U+0020, invisible joiners and fillers, bidi
+ * marks/embeddings/isolates, line and paragraph separators, the BOM, interlinear
+ * annotation and other specials, tag characters, format controls of later planes,
+ * private use, noncharacters, and surrogates (only lone ones reach this check).
+ */
+const ESCAPED_RANGES: readonly (readonly [number, number])[] = [
+	[0x0000, 0x001f], [0x007f, 0x00a0], [0x00ad, 0x00ad], [0x034f, 0x034f], [0x0600, 0x0605],
+	[0x061c, 0x061c], [0x06dd, 0x06dd], [0x070f, 0x070f], [0x0890, 0x0891], [0x08e2, 0x08e2],
+	[0x115f, 0x1160], [0x1680, 0x1680], [0x17b4, 0x17b5], [0x180b, 0x180f], [0x2000, 0x200f],
+	[0x2028, 0x202f], [0x205f, 0x206f], [0x3000, 0x3000], [0x3164, 0x3164], [0xd800, 0xf8ff],
+	[0xfdd0, 0xfdef], [0xfeff, 0xfeff], [0xffa0, 0xffa0], [0xfff0, 0xfffb], [0xfffe, 0xffff],
+	[0x110bd, 0x110bd], [0x110cd, 0x110cd], [0x13430, 0x1343f], [0x1bca0, 0x1bca3], [0x1d173, 0x1d17a],
+	[0xe0000, 0xe007f], [0xf0000, 0x10ffff]
+];
+
+function isEscaped(codePoint: number): boolean {
+	if (codePoint >= 0x20 && codePoint < 0x7f) return false;
+	for (const [lo, hi] of ESCAPED_RANGES) {
+		if (codePoint < lo) return false;
+		if (codePoint <= hi) return true;
+	}
+	return false;
+}
+
+/** Whether a code point is written as an escape by pyStr and pyComment (exported for tests). */
+export function isEscapedCodePoint(codePoint: number): boolean {
+	return isEscaped(codePoint) || (codePoint & 0xfffe) === 0xfffe;
+}
 
 const NAMED_ESCAPES: Readonly<Record<string, string>> = {
 	'\n': '\\n',
@@ -60,7 +87,8 @@ function escapeChar(ch: string, quote: string): string {
 	const named = NAMED_ESCAPES[ch];
 	if (named !== undefined) return named;
 	if (ch === quote) return `\\${quote}`;
-	if (INVISIBLE.test(ch)) return escapeCodePoint(ch.codePointAt(0) ?? 0);
+	const codePoint = ch.codePointAt(0) ?? 0;
+	if (isEscapedCodePoint(codePoint)) return escapeCodePoint(codePoint);
 	return ch;
 }
 
@@ -149,7 +177,7 @@ export function pyComment(text: string): string {
 	for (const ch of text) {
 		const named = NAMED_ESCAPES[ch];
 		if (named !== undefined) out += named;
-		else if (INVISIBLE.test(ch)) out += escapeCodePoint(ch.codePointAt(0) ?? 0);
+		else if (isEscapedCodePoint(ch.codePointAt(0) ?? 0)) out += escapeCodePoint(ch.codePointAt(0) ?? 0);
 		else out += ch;
 	}
 	return out.replace(ENCODING_DECLARATION, (_m, word: string, sep: string) => `${word}${escapeCodePoint(sep.charCodeAt(0))}`);

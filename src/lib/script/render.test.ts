@@ -113,8 +113,15 @@ describe('renderProgram', () => {
 	it('renders optional steps only when present', () => {
 		const files = withEntry('{{#if p.delay}}DELAY = {{py p.delay.fields}}\n{{else}}DELAY = None\n{{/if}}');
 		expect(renderProgram(files, makeContext())).toBe('DELAY = None\n');
-		const delay = { fields: ['CAL'], interval: { mode: 'seconds', seconds: 60 }, min_snr: 5, search_window_ns: 200 } as const;
+		const delay: RenderContext['p']['delay'] = { fields: ['CAL'], interval: { mode: 'seconds', seconds: 60 }, min_snr: 5, search_window_ns: 200 };
 		expect(renderProgram(files, makeContext({ delay }))).toBe('DELAY = ["CAL"]\n');
+	});
+
+	it('supports else-if chains, #each over an object with @key, #with and comments', () => {
+		const files = withEntry(
+			'{{!-- a comment --}}\n{{#if p.delay}}\nD = 1\n{{else if p.gain}}\nG = {{py p.gain.solve_for}}\n{{/if}}\n{{#each p.field_roles}}\nR[{{py @key}}] = {{py this}}\n{{/each}}\n{{#with p.gain}}\nS = {{py min_snr}}\n{{/with}}\n'
+		);
+		expect(renderProgram(files, makeContext())).toBe('G = "phase"\nR["CAL"] = ["flux_calibrator"]\nR["T1"] = ["target"]\nS = 3\n');
 	});
 
 	it('rejects a value that has no Python literal (NaN) with the file and line', () => {
@@ -167,7 +174,7 @@ describe('compileTemplateSet', () => {
 	});
 
 	it('rejects unknown helpers, including the built-in log and lookup', () => {
-		for (const source of ['{{shout p.title}}', '{{log p.title}}', '{{#lookup p "title"}}x{{/lookup}}']) {
+		for (const source of ['{{shout p.title}}', '{{log p.title}}', '{{#lookup p "title"}}x{{/lookup}}', '{{{{raw}}}}{{p.title}}{{{{/raw}}}}']) {
 			const error = compileError(withEntry(source));
 			expect(error.kind).toBe('unknown_helper');
 		}
@@ -188,9 +195,16 @@ describe('compileTemplateSet', () => {
 	});
 
 	it('rejects dynamic partials, partial blocks and decorators', () => {
-		for (const source of ['{{> (p.title)}}', '{{#> a}}x{{/a}}', '{{* deco}}']) {
+		for (const source of ['{{> (p.title)}}', '{{#> a}}x{{/a}}', '{{* deco}}', '{{#py p.title}}x{{/py}}']) {
 			expect(compileError(withEntry(source, { a: 'A' })).kind).toBe('forbidden_construct');
 		}
+	});
+
+	it('rejects partials that include each other in a loop', () => {
+		const error = compileError(withEntry('{{> a}}', { a: 'A\n{{> b}}', b: '{{> a}}' }));
+		expect(error.kind).toBe('forbidden_construct');
+		expect(error.message).toMatch(/loop \(a → b → a\)/);
+		expect(compileError(withEntry('{{> self}}', { self: '{{> self}}' })).message).toMatch(/self → self/);
 	});
 
 	it('reports a syntax error with the file and the line Handlebars gives', () => {

@@ -61,7 +61,13 @@ function compileFile(env: TemplateEnvironment, file: string, source: string, out
 		env.precompile(source, options);
 		template = env.compile(source, options) as TemplateFunction;
 	} catch (cause) {
-		throw toTemplateError(cause, file, outline);
+		// The static checks catch what we know of first; this is Handlebars' own verdict.
+		const message = cause instanceof Error ? cause.message : String(cause);
+		const lineNumber = (cause as { lineNumber?: unknown }).lineNumber;
+		throw new TemplateError('syntax', `the template does not compile: ${message.replace(/ - \d+:\d+$/, '')}`, {
+			file,
+			line: typeof lineNumber === 'number' ? lineNumber : null
+		});
 	}
 	return (context, runtimeOptions) => {
 		try {
@@ -70,6 +76,29 @@ function compileFile(env: TemplateEnvironment, file: string, source: string, out
 			throw toTemplateError(cause, file, outline);
 		}
 	};
+}
+
+/** Rejects partials that include themselves, directly or through others (rendering would never end). */
+function checkPartialCycles(outlines: ReadonlyMap<string, TemplateOutline>, partialFiles: ReadonlyMap<string, string>): void {
+	const done = new Set<string>();
+	const visit = (path: string, trail: string[]): void => {
+		if (done.has(path)) return;
+		for (const ref of outlines.get(path)?.partials ?? []) {
+			const target = partialFiles.get(ref.name);
+			if (target === undefined) continue;
+			if (trail.includes(target)) {
+				const names = [...trail.slice(trail.indexOf(target)), target].map((p) => PARTIAL_PATH.exec(p)?.[1] ?? p);
+				throw new TemplateError('forbidden_construct', `partials include each other in a loop (${names.join(' → ')}), so rendering would never end`, {
+					file: path,
+					line: ref.line,
+					column: ref.column
+				});
+			}
+			visit(target, [...trail, target]);
+		}
+		done.add(path);
+	};
+	for (const path of outlines.keys()) visit(path, [path]);
 }
 
 function compileOrThrow(files: Readonly<Record<string, string>>): CompiledTemplateSet {
@@ -99,6 +128,8 @@ function compileOrThrow(files: Readonly<Record<string, string>>): CompiledTempla
 			}
 		}
 	}
+
+	checkPartialCycles(outlines, partialFiles);
 
 	const env = createTemplateEnvironment();
 	for (const [name, path] of partialFiles) {

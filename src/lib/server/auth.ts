@@ -20,6 +20,13 @@ export const { handle: authHandle, signIn, signOut } = SvelteKitAuth(async () =>
 		secret: env.AUTH_SECRET,
 		trustHost: env.AUTH_TRUST_HOST,
 		session: { strategy: 'database', maxAge: env.SESSION_MAX_AGE_S },
+		logger: {
+			// A used or expired link is an expected event (the person sees a clear page): one line, no stack.
+			error(e: Error) {
+				if (e.name === 'Verification') console.warn('[auth] sign-in link rejected: used already or expired');
+				else console.error('[auth]', e);
+			}
+		},
 		pages: { signIn: '/signin', verifyRequest: '/signin/check-email', error: '/signin/problem' },
 		providers: [
 			Nodemailer({

@@ -1,0 +1,315 @@
+#!/usr/bin/env python3
+"""Simulated Phasewright visibility bundles (format v1) for the program tests, benchmark and demo.
+
+Invented data: an invented array, an invented gain calibrator and target; the flux calibrator
+follows the published 3C286 standard (Perley & Butler 2017 coefficients, via METHODS.md 8).
+numpy only, seeded: the same options give the same bundle.
+
+  python3 simulate.py bundle --out B.npz --truth T.json [options]
+  python3 simulate.py bad --from B.npz --kind KIND --out BAD.npz
+
+Corruption model (METHODS.md 1): vis = g_p conj(g_q) M + noise, g_p = G_p(t) B_p(nu) K_p(nu),
+K_p = exp(-2 pi i (nu - nu_ref) tau_p), nu_ref the window centre.
+"""
+import argparse
+import json
+import math
+import os
+import sys
+
+import numpy as np
+
+C = 299792458.0
+SIDEREAL_RATE = 2.0 * math.pi / 86164.0905  # rad/s (common practice)
+# Perley & Butler 2017 (ApJS 230, 7) 3C286, log S[Jy] = sum a_i (log nu_GHz)^i, via METHODS.md 8
+PB2017_3C286 = (1.2481, -0.4507, -0.1798, 0.0357)
+FIELD_NAMES = {"flux": "3C286", "gain": "Nursery G1", "target": "Nursery T1 'north\"", "gain2": "Nursery G2"}
+FIELD_INTENTS = {
+    "flux": "flux_calibrator,bandpass_calibrator,delay_calibrator",
+    "gain": "gain_calibrator",
+    "target": "target",
+    "gain2": "gain_calibrator",
+}
+# positions: 3C286 (from memory, METHODS.md 10); the others are invented
+FIELD_RADEC_DEG = {"flux": (202.784534, 30.509155), "gain": (198.0, 27.5), "target": (200.5, 28.2), "gain2": (204.0, 31.0)}
+# invented target: point sources (l, m in radians, flux density in Jy)
+TARGET_SOURCES = [(0.0, 0.0, 0.6), (3.0e-4, -2.0e-4, 0.35), (-4.0e-4, 1.5e-4, 0.25)]
+
+
+def flux_3c286(freq_hz):
+    x = np.log10(np.asarray(freq_hz) / 1e9)
+    return 10.0 ** sum(a * x ** i for i, a in enumerate(PB2017_3C286))
+
+
+def enu_to_uvw(enu, latitude, hour_angle, dec):
+    """Baseline east-north-up (metres) -> (u, v, w) towards (hour angle, dec) (TMS ch. 4 form, from memory)."""
+    e, n, u = enu[..., 0], enu[..., 1], enu[..., 2]
+    x = -math.sin(latitude) * n + math.cos(latitude) * u
+    y = e
+    z = math.cos(latitude) * n + math.sin(latitude) * u
+    sh, ch = np.sin(hour_angle), np.cos(hour_angle)
+    sd, cd = math.sin(dec), math.cos(dec)
+    uu = sh * x + ch * y
+    vv = -sd * ch * x + sd * sh * y + cd * z
+    ww = cd * ch * x - cd * sh * y + sd * z
+    return np.stack([uu, vv, ww], axis=-1)
+
+
+def parse_schedule(text, default_n_int):
+    scans = []
+    for item in text.split(","):
+        role, _, count = item.strip().partition(":")
+        if role not in FIELD_NAMES:
+            raise SystemExit("unknown schedule entry %r (use flux, gain, gain2, target)" % role)
+        scans.append((role, int(count) if count else default_n_int))
+    return scans
+
+
+def simulate(opts):
+    rng = np.random.default_rng(opts.seed)
+    n_ant, n_chan, n_corr = opts.n_ant, opts.n_chan, 2
+    width = opts.bandwidth / n_chan
+    freq = opts.first_freq + width * np.arange(n_chan)
+    ref_freq = 0.5 * (freq[0] + freq[-1])
+    names = ["A%02d" % (i + 1) for i in range(n_ant)]
+    pos = np.stack([rng.uniform(-opts.extent, opts.extent, n_ant), rng.uniform(-opts.extent, opts.extent, n_ant), rng.uniform(-3, 3, n_ant)], axis=1)
+    latitude = math.radians(-30.7)
+    schedule = parse_schedule(opts.schedule, opts.n_int)
+    roles = []
+    for role, _ in schedule:
+        if role not in roles:
+            roles.append(role)
+    field_index = {role: i for i, role in enumerate(roles)}
+    # antenna terms, per hand
+    delay_ns = rng.uniform(-opts.delay_max_ns, opts.delay_max_ns, (n_ant, 1)) + rng.uniform(-0.3, 0.3, (n_ant, n_corr))
+    x = (np.arange(n_chan) + 0.5) / n_chan
+    roll = 1.0 / np.sqrt(1.0 + ((x - 0.5) / 0.48) ** 20)
+    k_amp = rng.integers(2, 5, (n_ant, n_corr))
+    k_ph = rng.integers(1, 4, (n_ant, n_corr))
+    a_amp = rng.uniform(0.01, 0.04, (n_ant, n_corr))
+    a_ph = np.radians(rng.uniform(0.25, 1.0, (n_ant, n_corr)) * opts.phase_ripple_deg)
+    off_ph = np.radians(rng.uniform(-40, 40, (n_ant, n_corr)))
+    # ripples symmetric about the band centre, so they carry no linear phase (the delay stays the truth)
+    bp_amp = roll[None, :, None] * (1.0 + a_amp[:, None, :] * np.cos(2 * np.pi * k_amp[:, None, :] * (x[None, :, None] - 0.5)))
+    bp_phase = off_ph[:, None, :] + a_ph[:, None, :] * np.cos(2 * np.pi * k_ph[:, None, :] * (x[None, :, None] - 0.5))
+    bandpass = bp_amp * np.exp(1j * bp_phase)
+    kterm = np.exp(-2j * np.pi * (freq - ref_freq)[None, :, None] * delay_ns[:, None, :] * 1e-9)
+    spectral = (bandpass * kterm).astype(np.complex64)
+    g_amp0 = rng.uniform(0.8, 1.2, (n_ant, n_corr))
+    g_ph0 = rng.uniform(-np.pi, np.pi, (n_ant, n_corr))
+    g_rate = np.radians(rng.uniform(-20, 20, (n_ant, n_corr))) / 3600.0
+    g_psi = rng.uniform(0, 2 * np.pi, (n_ant, n_corr))
+    g_chi = rng.uniform(0, 2 * np.pi, (n_ant, n_corr))
+
+    def gains_at(t):
+        t = np.asarray(t)[:, None, None]
+        amp = g_amp0 * (1.0 + opts.amp_drift * np.sin(2 * np.pi * t / 10800.0 + g_psi))
+        ph = g_ph0 + g_rate * t + np.radians(6.0) * np.sin(2 * np.pi * t / 7200.0 + g_chi)
+        return amp * np.exp(1j * ph)
+
+    # rows: time-major, every baseline
+    a1, a2 = np.triu_indices(n_ant, k=1)
+    n_bl = len(a1)
+    times, scan_ids, field_ids = [], [], []
+    t = 0.0
+    for k, (role, count) in enumerate(schedule):
+        for i in range(count):
+            times.append(t + (i + 0.5) * opts.integration)
+            scan_ids.append(k + 1)
+            field_ids.append(field_index[role])
+        t += count * opts.integration + opts.gap
+    times = np.array(times)
+    n_time = len(times)
+    n_row = n_time * n_bl
+    row_time = np.repeat(times, n_bl)
+    row_scan = np.repeat(np.array(scan_ids, dtype=np.int32), n_bl)
+    row_field = np.repeat(np.array(field_ids, dtype=np.int32), n_bl)
+    ant1 = np.tile(a1, n_time).astype(np.int32)
+    ant2 = np.tile(a2, n_time).astype(np.int32)
+    ra = np.radians([FIELD_RADEC_DEG[r][0] for r in roles])
+    dec = np.radians([FIELD_RADEC_DEG[r][1] for r in roles])
+    lst0 = ra[0]
+    hour_angle = lst0 + SIDEREAL_RATE * row_time - ra[row_field]
+    uvw = np.zeros((n_row, 3))
+    for f in range(len(roles)):
+        sel = row_field == f
+        uvw[sel] = enu_to_uvw(pos[ant2[sel]] - pos[ant1[sel]], latitude, hour_angle[sel], dec[f])
+    gtime = gains_at(times)  # (n_time, n_ant, n_corr)
+    vis = np.empty((n_row, n_chan, n_corr), dtype=np.complex64)
+    flag = np.zeros((n_row, n_chan, n_corr), dtype=bool)
+    model_flux = flux_3c286(freq)
+    dead = opts.dead_antenna
+    outage_scan = opts.ref_outage_scan
+    rfi = [int(c) for c in opts.rfi.split(",") if c.strip()] if opts.rfi else []
+    chunk = max(1, (1 << 22) // (n_chan * n_corr))
+    sigma = opts.sigma
+    for s in range(0, n_row, chunk):
+        sl = slice(s, min(s + chunk, n_row))
+        r1, r2 = ant1[sl], ant2[sl]
+        ti = np.arange(sl.start, sl.stop) // n_bl
+        gprod = gtime[ti, r1] * np.conj(gtime[ti, r2])  # (m, n_corr)
+        prod = spectral[r1] * np.conj(spectral[r2]) * gprod[:, None, :].astype(np.complex64)
+        fr = row_field[sl]
+        model = np.zeros((len(r1), n_chan), dtype=np.complex64)
+        for f, role in enumerate(roles):
+            sel = fr == f
+            if not sel.any():
+                continue
+            if role == "flux":
+                model[sel] = model_flux[None, :]
+            elif role == "gain":
+                model[sel] = opts.gain_flux
+            elif role == "gain2":
+                model[sel] = opts.gain2_flux
+            else:
+                u = uvw[sl][sel]
+                acc = np.zeros((int(sel.sum()), n_chan), dtype=np.complex128)
+                for l, m, sjy in TARGET_SOURCES:
+                    n = math.sqrt(1.0 - l * l - m * m)
+                    path = (u[:, 0] * l + u[:, 1] * m + u[:, 2] * (n - 1.0))[:, None] * freq[None, :] / C
+                    acc += sjy * np.exp(-2j * np.pi * path)
+                model[sel] = acc
+        noise = rng.standard_normal((len(r1), n_chan, n_corr, 2), dtype=np.float32) * np.float32(sigma)
+        v = prod * model[:, :, None] + (noise[..., 0] + 1j * noise[..., 1])
+        vis[sl] = v
+    if dead >= 0:
+        bad = (ant1 == dead) | (ant2 == dead)
+        vis[bad] = 1.0e3
+        flag[bad] = True
+    if outage_scan > 0:
+        bad = (row_scan == outage_scan) & ((ant1 == 0) | (ant2 == 0))
+        vis[bad] = 7.0e2
+        flag[bad] = True
+    for c in rfi:
+        vis[:, c, :] = 50.0 + 50.0j
+        flag[:, c, :] = True
+    weight = np.full((n_row, n_corr), 1.0 / sigma ** 2, dtype=np.float32)
+    arrays = {
+        "format": np.array("phasewright.visibility-bundle"),
+        "format_version": np.array(1, dtype=np.int16),
+        "vis": vis,
+        "flag": flag,
+        "weight": weight,
+        "time": row_time,
+        "time_epoch_utc": np.array("2026-03-14T20:00:00Z"),
+        "integration_s": np.array(float(opts.integration)),
+        "ant1": ant1,
+        "ant2": ant2,
+        "scan": row_scan,
+        "field": row_field,
+        "uvw": uvw,
+        "chan_freq": freq,
+        "corr_type": np.array(["XX", "YY"]),
+        "antenna_name": np.array(names),
+        "antenna_position": pos,
+        "antenna_diameter": np.full(n_ant, 13.5),
+        "field_name": np.array([FIELD_NAMES[r] for r in roles]),
+        "field_ra": ra,
+        "field_dec": dec,
+        "array_name": np.array("Corrie Flats Array (simulated)"),
+        "array_latitude": np.array(latitude),
+        "field_intents": np.array([FIELD_INTENTS[r] for r in roles]),
+    }
+    truth = {
+        "antenna_names": names,
+        "corr": ["XX", "YY"],
+        "delay_ns": delay_ns.tolist(),
+        "ref_freq_hz": ref_freq,
+        "chan_freq_hz": freq.tolist(),
+        "chan_width_hz": width,
+        "bandwidth_hz": opts.bandwidth,
+        "bandpass_amp": bp_amp.tolist() if opts.truth_bandpass else None,
+        "bandpass_phase_rad": bp_phase.tolist() if opts.truth_bandpass else None,
+        "sigma_jy": sigma,
+        "phase_ripple_max_deg": opts.phase_ripple_deg,
+        "gain_flux_jy": opts.gain_flux,
+        "gain2_flux_jy": opts.gain2_flux,
+        "amp_drift": opts.amp_drift,
+        "gain_amp0": g_amp0.tolist(),
+        "target_sources": [{"l": l, "m": m, "flux_jy": s} for l, m, s in TARGET_SOURCES],
+        "fields": {r: FIELD_NAMES[r] for r in roles},
+        "dead_antenna": names[dead] if dead >= 0 else None,
+        "ref_outage_scan": outage_scan if outage_scan > 0 else None,
+        "rfi_channels": rfi,
+        "scans": [{"scan": k + 1, "role": role, "field": FIELD_NAMES[role], "n_int": n} for k, (role, n) in enumerate(schedule)],
+        "n_ant": n_ant,
+        "n_chan": n_chan,
+        "n_row": n_row,
+    }
+    return arrays, truth
+
+
+def write_bad(source, kind, out):
+    """Deliberately broken bundles for the bad-input tests."""
+    if kind == "truncated":
+        with open(source, "rb") as handle:
+            data = handle.read()
+        with open(out, "wb") as handle:
+            handle.write(data[: len(data) // 2])
+        return
+    if kind == "not_npz":
+        with open(out, "w") as handle:
+            handle.write("time,vis\n0,1\n")
+        return
+    with np.load(source, allow_pickle=False) as archive:
+        arrays = {k: archive[k] for k in archive.files}
+    if kind == "wrong_format":
+        arrays["format"] = np.array("another.visibility-format")
+    elif kind == "newer_version":
+        arrays["format_version"] = np.array(2, dtype=np.int64)
+    elif kind == "missing_key":
+        del arrays["chan_freq"]
+    elif kind == "wrong_dtype":
+        arrays["vis"] = arrays["vis"].astype(np.complex128)
+    elif kind == "bad_shape":
+        arrays["flag"] = arrays["flag"][:-1]
+    else:
+        raise SystemExit("unknown bad kind %r" % kind)
+    with open(out, "wb") as handle:
+        np.savez(handle, **arrays)
+
+
+def main():
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    sub = parser.add_subparsers(dest="command", required=True)
+    b = sub.add_parser("bundle")
+    b.add_argument("--out", required=True)
+    b.add_argument("--truth", required=True)
+    b.add_argument("--seed", type=int, default=1)
+    b.add_argument("--n-ant", type=int, default=8)
+    b.add_argument("--n-chan", type=int, default=64)
+    b.add_argument("--n-int", type=int, default=10, help="integrations per scan when the schedule gives none")
+    b.add_argument("--schedule", default="flux,gain,target,gain,target,gain", help="comma list of role[:integrations]")
+    b.add_argument("--integration", type=float, default=8.0)
+    b.add_argument("--gap", type=float, default=20.0, help="seconds between scans")
+    b.add_argument("--first-freq", type=float, default=1.0e9)
+    b.add_argument("--bandwidth", type=float, default=5.0e8)
+    b.add_argument("--extent", type=float, default=1500.0, help="antenna east/north spread (metres)")
+    b.add_argument("--sigma", type=float, default=0.5, help="noise rms of the real part per channel and integration (Jy)")
+    b.add_argument("--gain-flux", type=float, default=2.345)
+    b.add_argument("--gain2-flux", type=float, default=1.234)
+    b.add_argument("--amp-drift", type=float, default=0.003, help="fractional slow gain amplitude drift")
+    b.add_argument("--phase-ripple-deg", type=float, default=4.0, help="largest bandpass phase ripple amplitude")
+    b.add_argument("--delay-max-ns", type=float, default=5.0)
+    b.add_argument("--dead-antenna", type=int, default=-1, help="antenna index flagged throughout (-1: none)")
+    b.add_argument("--ref-outage-scan", type=int, default=0, help="scan number in which A01 is flagged (0: none)")
+    b.add_argument("--rfi", default="", help="comma list of channels hit by interference (flagged)")
+    b.add_argument("--no-truth-bandpass", dest="truth_bandpass", action="store_false")
+    bad = sub.add_parser("bad")
+    bad.add_argument("--from", dest="source", required=True)
+    bad.add_argument("--kind", required=True)
+    bad.add_argument("--out", required=True)
+    opts = parser.parse_args()
+    if opts.command == "bad":
+        write_bad(opts.source, opts.kind, opts.out)
+        return 0
+    arrays, truth = simulate(opts)
+    with open(opts.out, "wb") as handle:
+        np.savez(handle, **arrays)
+    with open(opts.truth, "w") as handle:
+        json.dump(truth, handle)
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
