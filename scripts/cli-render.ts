@@ -16,6 +16,7 @@ import type { InputIssue } from '../src/lib/calibration/result';
 import { renderProgram } from '../src/lib/script/render';
 import { buildRenderContext } from '../src/lib/script/render-context';
 import { TemplateError } from '../src/lib/script/template-error';
+import type { CliCommand } from './cli';
 
 const STARTER_TEMPLATE = { name: 'standard', version: 1 } as const;
 const LOCAL_RECIPE_ID = 'local';
@@ -23,12 +24,15 @@ const LOCAL_RECIPE_VERSION = 0;
 const RECIPE_LIMITS = { maxBytes: 6_000_000, maxDepth: 24 };
 const USAGE = 'usage: render --recipe R.json [--template standard@1] [--observation O.json]';
 
-/** Where output goes and where the starter templates are; tests pass their own. */
+/** Where output goes, how files are read and where the starter templates are; tests pass their own. */
 export type RenderCommandIo = {
 	writeOut: (text: string) => void;
 	writeErr: (text: string) => void;
 	templatesDir: string;
+	readText?: (path: string) => string;
 };
+
+const STARTER_TEMPLATES_DIR = fileURLToPath(new URL('../templates/', import.meta.url));
 
 let stdoutGuarded = false;
 
@@ -48,9 +52,10 @@ function writeStdout(text: string): void {
 const DEFAULT_IO: RenderCommandIo = {
 	writeOut: writeStdout,
 	writeErr: (text) => process.stderr.write(text),
-	templatesDir: fileURLToPath(new URL('../templates/', import.meta.url))
+	templatesDir: STARTER_TEMPLATES_DIR
 };
 
+/** Exit codes as in scripts/cli.ts: 2 for bad arguments or unreadable input, 1 when the templates fail. */
 class CommandFailure extends Error {
 	constructor(
 		readonly exitCode: 1 | 2,
@@ -87,7 +92,7 @@ function parseTemplateName(text: string): { name: string; version: number } {
 function requireStarterTemplate(template: { name: string; version: number }, origin: string): void {
 	if (template.name !== STARTER_TEMPLATE.name || template.version !== STARTER_TEMPLATE.version) {
 		throw new CommandFailure(
-			1,
+			2,
 			`${origin} asks for template ${template.name}@${template.version}, but the command line renders with the starter set ` +
 				`(${STARTER_TEMPLATE.name}@${STARTER_TEMPLATE.version}, the files in templates/) only; ` +
 				'render other template versions in the app, or pass --template standard@1'
@@ -95,27 +100,27 @@ function requireStarterTemplate(template: { name: string; version: number }, ori
 	}
 }
 
-function readText(path: string, what: string): string {
+function readText(io: RenderCommandIo, path: string, what: string): string {
 	try {
-		return readFileSync(path, 'utf8');
+		return io.readText ? io.readText(path) : readFileSync(path, 'utf8');
 	} catch (cause) {
 		const code = (cause as { code?: unknown }).code;
-		throw new CommandFailure(1, `cannot read the ${what} file ${path}${typeof code === 'string' ? ` (${code})` : ''}`);
+		throw new CommandFailure(2, `cannot read the ${what} file ${path}${typeof code === 'string' ? ` (${code})` : ''}`);
 	}
 }
 
 /** Reads bare recipe parameters or a `phasewright.recipe` export; returns the params and the export's template. */
-function readRecipeFile(path: string): { recipe: RecipeParams; template: { name: string; version: number } | null } {
-	const json = parseJsonText(readText(path, 'recipe'), RECIPE_LIMITS);
-	if (!json.ok) throw new CommandFailure(1, `${path} is not a readable recipe file`, [json.issue]);
+function readRecipeFile(io: RenderCommandIo, path: string): { recipe: RecipeParams; template: { name: string; version: number } | null } {
+	const json = parseJsonText(readText(io, path, 'recipe'), RECIPE_LIMITS);
+	if (!json.ok) throw new CommandFailure(2, `${path} is not a readable recipe file`, [json.issue]);
 	const isExport = typeof json.value === 'object' && json.value !== null && 'format' in json.value;
 	if (isExport) {
 		const parsed = parseRecipeExportValue(json.value);
-		if (!parsed.ok) throw new CommandFailure(1, `${path} is not a valid phasewright.recipe export`, parsed.error.issues);
+		if (!parsed.ok) throw new CommandFailure(2, `${path} is not a valid phasewright.recipe export`, parsed.error.issues);
 		return { recipe: parsed.value.recipe, template: parsed.value.template };
 	}
 	const parsed = parseRecipeParamsValue(json.value);
-	if (!parsed.ok) throw new CommandFailure(1, `${path} is not valid recipe parameters (nor a phasewright.recipe export)`, parsed.error.issues);
+	if (!parsed.ok) throw new CommandFailure(2, `${path} is not valid recipe parameters (nor a phasewright.recipe export)`, parsed.error.issues);
 	return { recipe: parsed.value, template: null };
 }
 
@@ -132,14 +137,14 @@ export function readTemplateDirectory(root: string, dir = root): Record<string, 
 
 function runRender(options: RenderOptions, io: RenderCommandIo): string {
 	const requested = options.template === null ? null : parseTemplateName(options.template);
-	const { recipe, template } = readRecipeFile(options.recipe);
+	const { recipe, template } = readRecipeFile(io, options.recipe);
 	if (requested) requireStarterTemplate(requested, '--template');
 	else if (template) requireStarterTemplate(template, `the export ${basename(options.recipe)}`);
 
 	let observation = null;
 	if (options.observation !== null) {
-		const parsed = parseObservation(readText(options.observation, 'observation'));
-		if (!parsed.ok) throw new CommandFailure(1, `${options.observation} is not a valid observation summary`, parsed.error.issues);
+		const parsed = parseObservation(readText(io, options.observation, 'observation'));
+		if (!parsed.ok) throw new CommandFailure(2, `${options.observation} is not a valid observation summary`, parsed.error.issues);
 		observation = parsed.value.summary;
 	}
 	const context = buildRenderContext({
@@ -177,3 +182,21 @@ export async function runRenderCommand(args: string[], io: RenderCommandIo = DEF
 		throw cause;
 	}
 }
+
+/**
+ * The command in the shape scripts/cli.ts registers from scripts/cli-commands/*.ts
+ * (`export { renderCommand as command } from '../cli-render'; export const name = 'render';`).
+ */
+export const renderCommand: CliCommand = {
+	summary: 'render a recipe into its Python program with the starter templates (standard@1)',
+	usage: 'render --recipe R.json [--template standard@1] [--observation O.json]',
+	options: { recipe: { type: 'string' }, template: { type: 'string' }, observation: { type: 'string' } },
+	run: (values, io) => {
+		const args: string[] = [];
+		for (const key of ['recipe', 'template', 'observation'] as const) {
+			const value = values[key];
+			if (typeof value === 'string') args.push(`--${key}`, value);
+		}
+		return runRenderCommand(args, { writeOut: io.out, writeErr: io.err, readText: io.readText, templatesDir: STARTER_TEMPLATES_DIR });
+	}
+};

@@ -4,7 +4,7 @@ import { request as pwRequest, type APIRequestContext } from '@playwright/test';
 // The route × role matrix over real HTTP against the built app: every route that exists,
 // for anonymous visitors and each kind of person. Expected statuses follow DESIGN.md
 // "Roles and permissions" (303 = page redirects to sign-in).
-type Who = 'anonymous' | Persona;
+type Who = 'anonymous' | Exclude<Persona, 'otherMember'>;
 const WHO: Who[] = ['anonymous', 'member', 'reviewer', 'lead', 'otherLead', 'admin'];
 
 type Case = { name: string; method: 'GET' | 'POST'; path: (ids: Ids) => string; form?: Record<string, string>; json?: unknown; expect: Record<Who, number> };

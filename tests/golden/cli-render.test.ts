@@ -1,9 +1,9 @@
 /** The `render` command of the command line (scripts/cli-render.ts), run in-process on files. */
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { runRenderCommand, type RenderCommandIo } from '../../scripts/cli-render';
+import { renderCommand, runRenderCommand, type RenderCommandIo } from '../../scripts/cli-render';
 import { parseObservation } from '../../src/lib/calibration/observation';
 import { createRecipeExport, recipeParamsSchema } from '../../src/lib/calibration/recipe';
 import { runPythonJson } from '../../src/lib/script/python-test-harness';
@@ -63,34 +63,52 @@ print(json.dumps(title))
 		const demo = join(ROOT, 'tests', 'fixtures', 'observations', 'demo.json');
 		expect((await run(['--recipe', recipePath, '--observation', demo])).code).toBe(0);
 		const bad = await run(['--recipe', recipePath, '--observation', writeJson('obs.json', { format: 'something.else' })]);
-		expect(bad.code).toBe(1);
+		expect(bad.code).toBe(2);
 		expect(bad.err).toMatch(/not a valid observation summary\n {2}\$\.format: /);
 	});
 
 	it('refuses template versions other than the starter set, from the flag or from an export', async () => {
 		const flag = await run(['--recipe', recipePath, '--template', 'standard@2']);
-		expect(flag.code).toBe(1);
+		expect(flag.code).toBe(2);
 		expect(flag.err).toMatch(/renders with the starter set \(standard@1, the files in templates\/\) only/);
 		const fromExport = await run(['--recipe', writeJson('export2.json', makeExport({ name: 'team-special', version: 3 }))]);
-		expect(fromExport.code).toBe(1);
+		expect(fromExport.code).toBe(2);
 		expect(fromExport.err).toContain('team-special@3');
 		expect((await run(['--recipe', recipePath, '--template', 'standard@1'])).code).toBe(0);
 	});
 
-	it('reports invalid recipes with the offending paths and exit code 1', async () => {
+	// Exit codes follow scripts/cli.ts: 2 for bad arguments or unreadable input.
+	it('reports invalid recipes with the offending paths and exit code 2', async () => {
 		const invalid = await run(['--recipe', writeJson('bad.json', { ...recipe, spectral_window_id: -1, title: '' })]);
-		expect(invalid.code).toBe(1);
+		expect(invalid.code).toBe(2);
 		expect(invalid.out).toBe('');
 		expect(invalid.err).toContain('$.spectral_window_id');
 		expect(invalid.err).toContain('$.title');
 		const notJson = await run(['--recipe', writeJson('broken.json', '{"schema_version": 1,')]);
-		expect(notJson.code).toBe(1);
+		expect(notJson.code).toBe(2);
 		expect(notJson.err).toMatch(/expected valid JSON/);
 		const newer = await run(['--recipe', writeJson('newer.json', { format: 'phasewright.recipe', format_version: 9 })]);
 		expect(newer.err).toMatch(/newer than the version this Phasewright reads/);
 		const missing = await run(['--recipe', join(work, 'nope.json')]);
-		expect(missing.code).toBe(1);
+		expect(missing.code).toBe(2);
 		expect(missing.err).toMatch(/cannot read the recipe file .*nope\.json \(ENOENT\)/);
+	});
+
+	it('exits 1 with the template error when the templates cannot render', async () => {
+		const broken = mkdtempSync(join(work, 'templates-'));
+		mkdirSync(join(broken, 'python'));
+		writeFileSync(join(broken, 'python', 'calibrate.py.hbs'), 'X = {{py p.no_such_field}}\n');
+		let err = '';
+		const code = await runRenderCommand(['--recipe', recipePath], { writeOut: () => undefined, writeErr: (t) => (err += t), templatesDir: broken });
+		expect(code).toBe(1);
+		expect(err).toMatch(/templates\/python\/calibrate\.py\.hbs line 1.*"p\.no_such_field"/);
+	});
+
+	it('runs through the command shape scripts/cli.ts registers', async () => {
+		let out = '';
+		const io = { readText: (path: string) => readFileSync(path, 'utf8'), out: (t: string) => (out += t), err: () => undefined };
+		expect(await renderCommand.run({ recipe: recipePath }, io)).toBe(0);
+		expect(out).toBe((await run(['--recipe', recipePath])).out);
 	});
 
 	it('exits 2 with the usage on bad arguments', async () => {

@@ -17,7 +17,6 @@ const envSchema = z.object({
 	SMTP_USER: z.string().default(''),
 	SMTP_PASSWORD: z.string().default(''),
 	MAIL_FROM: z.string().default('Phasewright <no-reply@phasewright.localhost>'),
-	PUBLIC_ORIGIN: z.string().default('')
 });
 
 export type ServerEnv = z.infer<typeof envSchema>;
