@@ -8,6 +8,7 @@ import { insertMailMessage } from '$lib/server/db/queries/mail';
 import { startFakeSmtp, type FakeSmtp } from '$lib/server/mail/fake-smtp';
 import { getEnv } from '$lib/server/env';
 import { SESSION_COOKIES } from '$lib/server/guards';
+import { ensureStarterTemplates } from '$lib/server/services/templates';
 
 let fakeSmtp: FakeSmtp | null = null;
 
@@ -17,6 +18,14 @@ export const init: ServerInit = async () => {
 	if (env.MAIL_TRANSPORT === 'fake') {
 		fakeSmtp = await startFakeSmtp({ port: env.MAIL_FAKE_PORT, store: (m) => insertMailMessage(getDb(), m) });
 		console.log(`[mail] fake SMTP server on 127.0.0.1:${fakeSmtp.port}`);
+	}
+	// Load the bundled starter templates into the store (a new version only when they changed).
+	// If the database is down now, the first render retries.
+	try {
+		const v = await ensureStarterTemplates(getDb());
+		console.log(`[templates] starter set ${v.templateName}@${v.version} (${v.sha256.slice(0, 12)})`);
+	} catch (e) {
+		console.error(`[templates] could not load the starter set yet: ${(e as Error).message}`);
 	}
 	process.once('sveltekit:shutdown', () => {
 		void fakeSmtp?.close();

@@ -1,10 +1,9 @@
-import type { RequestEvent } from '@sveltejs/kit';
 import { error } from '@sveltejs/kit';
 import { eq } from 'drizzle-orm';
 import { getDb } from '../db/client';
 import { teams } from '../db/schema';
 import { getObservation } from '../db/queries/observations';
-import { requireCan } from '../guards';
+import { requireCan, type GuardEvent } from '../guards';
 import { ApiValidationError } from '../http';
 import { parseRecipeParamsValue, type RecipeParams } from '$lib/calibration/recipe';
 import { parseObservationValue, type ObservationSummary } from '$lib/calibration/observation';
@@ -17,7 +16,7 @@ export type CheckInputs = { recipe: RecipeParams; observation: ObservationSummar
  * loaded (only from a team the caller belongs to) or parsed inline, and the team's rule policy.
  */
 export async function resolveCheckInputs(
-	event: Pick<RequestEvent, 'locals'>,
+	event: GuardEvent,
 	body: { recipe: unknown; observation_id?: string; observation?: unknown; team_id?: string }
 ): Promise<CheckInputs> {
 	const recipe = parseRecipeParamsValue(body.recipe);

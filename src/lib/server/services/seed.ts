@@ -4,6 +4,8 @@ import { memberships, users } from '../db/schema';
 import { getTeamBySlug, insertMembership, insertTeam } from '../db/queries/teams';
 import { upsertUserByEmail } from '../db/queries/users';
 import type { TeamRole } from '$lib/workflow/permissions';
+import { createDemoObservation } from '$lib/calibration/demo-observation';
+import { uploadObservation } from './observations';
 
 // The invented demo scenario (DESIGN.md "Demo scenario"): people and teams are fictional.
 export const DEMO_ADMIN = { email: 'admin@phasewright.example', name: 'Site Admin' };
@@ -53,6 +55,15 @@ export async function seedDemo(db: Executor): Promise<{ created: number }> {
 					created++;
 				}
 			}
+		}
+		// The demo observation, as if Ada had uploaded it (same bytes every time: idempotent).
+		const demoTeam = await getTeamBySlug(tx, DEMO_TEAMS[0]?.slug ?? '');
+		const ada = await upsertUserByEmail(tx, 'ada@stellar-nurseries.example', 'Ada Okafor');
+		if (demoTeam) {
+			const bytes = new TextEncoder().encode(`${JSON.stringify(createDemoObservation(), null, 2)}\n`);
+			const r = await uploadObservation(tx, { teamId: demoTeam.id, bytes, filename: 'corrie-flats-demo.json', userId: ada.id });
+			if (r.ok) created++;
+			else if (r.error.code !== 'conflict') throw new Error(`demo observation rejected: ${r.error.message}`);
 		}
 		return { created };
 	});

@@ -1,0 +1,85 @@
+import { eq } from 'drizzle-orm';
+import type { Executor } from '../db/client';
+import { teams } from '../db/schema';
+import { getObservation } from '../db/queries/observations';
+import { getLatestVersionNumber, getRecipe, insertRecipe, insertRecipeVersion, updateDraft } from '../db/queries/recipes';
+import { getTemplateVersionById } from '../db/queries/templates';
+import { createDefaultRecipe } from '$lib/calibration/defaults';
+import { parseRecipeParamsValue, type RecipeParams } from '$lib/calibration/recipe';
+import { hasErrors, validate, type Finding } from '$lib/calibration/validate';
+import { paramsSha256 } from '$lib/script/sha256';
+import { fail, type DomainResult } from '$lib/workflow/errors';
+import { syncStarterTemplates } from './templates';
+import { STARTER_FILES, STARTER_TEMPLATE_NAME } from '../templates/starter';
+import { renderWithTemplate } from './render';
+
+/** Creates a recipe for one of the team's observations, starting from the engine's defaults. */
+export async function createRecipe(db: Executor, input: { teamId: string; observationId: string; title?: string; userId: string | null }): Promise<DomainResult<{ id: string }>> {
+	const obs = await getObservation(db, input.observationId);
+	if (!obs || obs.teamId !== input.teamId) return fail('not_found', 'No such observation in this team.');
+	const draft = createDefaultRecipe(obs.summary, input.title ? { title: input.title } : {});
+	const row = await insertRecipe(db, { teamId: input.teamId, title: draft.title, observationId: obs.id, draft, userId: input.userId });
+	return { ok: true, value: row };
+}
+
+export type SavedVersion = { version: number; programSha256: string; paramsSha256: string; findings: Finding[]; template: { name: string; version: number } };
+
+/**
+ * Saves the draft (or the given parameters) as a new immutable version: validated, rendered
+ * with the template version it pins, stored in one transaction. Error findings refuse the
+ * save and keep the draft; a stale `baseRevision` is a conflict, never a silent overwrite.
+ */
+export async function saveVersion(
+	db: Executor,
+	input: { recipeId: string; userId: string | null; message: string; params?: unknown; baseRevision?: number; now: Date }
+): Promise<DomainResult<SavedVersion>> {
+	return db.transaction(async (tx) => {
+		// Inside the transaction, so the pinned template version is one this transaction can see.
+		const { version: template } = await syncStarterTemplates(tx, STARTER_TEMPLATE_NAME, STARTER_FILES);
+		const recipe = await getRecipe(tx, input.recipeId, true);
+		if (!recipe) return fail('not_found', 'No such recipe.');
+		if (input.baseRevision !== undefined && input.baseRevision !== recipe.draftRevision) {
+			return fail('conflict', `Someone saved this recipe after you opened it (your copy is revision ${input.baseRevision}, the recipe is at ${recipe.draftRevision}). Reload to see their changes; nothing was overwritten.`);
+		}
+		let params = recipe.draft;
+		if (input.params !== undefined) {
+			const parsed = parseRecipeParamsValue(input.params);
+			if (!parsed.ok) return fail('validation_failed', 'The recipe parameters are not valid.', parsed.error.issues);
+			params = parsed.value;
+		}
+		const observation = recipe.observationId ? ((await getObservation(tx, recipe.observationId))?.summary ?? null) : null;
+		const [team] = await tx.select({ policy: teams.rulePolicy }).from(teams).where(eq(teams.id, recipe.teamId));
+		const findings = validate(params, observation, team?.policy ?? null);
+		if (hasErrors(findings)) {
+			const errors = findings.filter((f) => f.severity === 'error');
+			return fail('validation_failed', `The recipe has ${errors.length} error finding${errors.length === 1 ? '' : 's'}; fix them before saving a version (the draft is kept).`, errors.map((f) => ({ path: f.path, message: `${f.code}: ${f.message}` })));
+		}
+		const version = (await getLatestVersionNumber(tx, recipe.id)) + 1;
+		const rendered = renderWithTemplate({ template, recipe: params, observation, recipeId: recipe.id, recipeVersion: version });
+		if (!rendered.ok) return rendered;
+		const pSha = paramsSha256(params);
+		await insertRecipeVersion(tx, {
+			recipeId: recipe.id,
+			version,
+			params,
+			paramsSha256: pSha,
+			templateVersionId: template.id,
+			program: rendered.value.program,
+			programSha256: rendered.value.sha256,
+			findings,
+			message: input.message,
+			authorId: input.userId
+		});
+		await updateDraft(tx, recipe.id, { draft: params, title: params.title, revision: recipe.draftRevision + 1, userId: input.userId, now: input.now });
+		return { ok: true, value: { version, programSha256: rendered.value.sha256, paramsSha256: pSha, findings, template: { name: template.templateName, version: template.version } } };
+	});
+}
+
+/** Re-renders a saved version with the template version it pinned (must equal the stored program). */
+export async function rerenderVersion(db: Executor, v: { recipeId: string; version: number; params: RecipeParams; templateVersionId: string; observationId: string | null }): Promise<DomainResult<string>> {
+	const template = await getTemplateVersionById(db, v.templateVersionId);
+	if (!template) return fail('not_found', 'The pinned template version is missing.');
+	const observation = v.observationId ? ((await getObservation(db, v.observationId))?.summary ?? null) : null;
+	const r = renderWithTemplate({ template, recipe: v.params, observation, recipeId: v.recipeId, recipeVersion: v.version });
+	return r.ok ? { ok: true, value: r.value.program } : r;
+}
