@@ -1,7 +1,6 @@
 import { error } from '@sveltejs/kit';
-import { eq } from 'drizzle-orm';
 import { getDb } from '../db/client';
-import { teams } from '../db/schema';
+import { getRulePolicy } from '../db/queries/teams';
 import { getObservation } from '../db/queries/observations';
 import { requireCan, type GuardEvent } from '../guards';
 import { ApiValidationError } from '../http';
@@ -40,8 +39,7 @@ export async function resolveCheckInputs(
 	let policy: RulePolicy | null = null;
 	if (teamId) {
 		requireCan(event, 'recipe.view', { teamId }, 'team.view');
-		const rows = await getDb().select({ p: teams.rulePolicy }).from(teams).where(eq(teams.id, teamId)).limit(1);
-		policy = rows[0]?.p ?? null;
+		policy = await getRulePolicy(getDb(), teamId);
 	}
 	return { recipe: recipe.value, observation, policy, teamId };
 }

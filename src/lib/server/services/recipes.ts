@@ -1,6 +1,5 @@
-import { eq } from 'drizzle-orm';
 import type { Executor } from '../db/client';
-import { teams } from '../db/schema';
+import { getRulePolicy } from '../db/queries/teams';
 import { getObservation } from '../db/queries/observations';
 import { getLatestVersionNumber, getRecipe, insertRecipe, insertRecipeVersion, updateDraft } from '../db/queries/recipes';
 import { getTemplateVersionById } from '../db/queries/templates';
@@ -48,8 +47,7 @@ export async function saveVersion(
 			params = parsed.value;
 		}
 		const observation = recipe.observationId ? ((await getObservation(tx, recipe.observationId))?.summary ?? null) : null;
-		const [team] = await tx.select({ policy: teams.rulePolicy }).from(teams).where(eq(teams.id, recipe.teamId));
-		const findings = validate(params, observation, team?.policy ?? null);
+		const findings = validate(params, observation, await getRulePolicy(tx, recipe.teamId));
 		if (hasErrors(findings)) {
 			const errors = findings.filter((f) => f.severity === 'error');
 			return fail('validation_failed', `The recipe has ${errors.length} error finding${errors.length === 1 ? '' : 's'}; fix them before saving a version (the draft is kept).`, errors.map((f) => ({ path: f.path, message: `${f.code}: ${f.message}` })));

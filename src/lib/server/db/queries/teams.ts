@@ -2,6 +2,7 @@ import { and, asc, eq } from 'drizzle-orm';
 import type { Executor } from '../client';
 import { memberships, teams, users } from '../schema';
 import type { TeamRole } from '$lib/workflow/permissions';
+import type { RulePolicy } from '$lib/calibration/validate';
 
 export type Team = { id: string; slug: string; name: string };
 export type TeamMember = { userId: string; email: string; name: string | null; role: TeamRole; since: Date };
@@ -49,4 +50,13 @@ export async function updateMembershipRole(db: Executor, teamId: string, userId:
 
 export async function deleteMembership(db: Executor, teamId: string, userId: string): Promise<void> {
 	await db.delete(memberships).where(and(eq(memberships.teamId, teamId), eq(memberships.userId, userId)));
+}
+
+export async function getRulePolicy(db: Executor, teamId: string): Promise<RulePolicy | null> {
+	const rows = await db.select({ p: teams.rulePolicy }).from(teams).where(eq(teams.id, teamId)).limit(1);
+	return rows[0]?.p ?? null;
+}
+
+export async function setRulePolicy(db: Executor, teamId: string, policy: RulePolicy): Promise<void> {
+	await db.update(teams).set({ rulePolicy: policy }).where(eq(teams.id, teamId));
 }
