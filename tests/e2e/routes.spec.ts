@@ -1,4 +1,4 @@
-import { test, expect, seedSession, teamId, PEOPLE, type Persona } from './fixtures';
+import { test, expect, seedSession, teamId, query, PEOPLE, type Persona } from './fixtures';
 import { request as pwRequest, type APIRequestContext } from '@playwright/test';
 
 // The route × role matrix over real HTTP against the built app: every route that exists,
@@ -8,7 +8,7 @@ type Who = 'anonymous' | Exclude<Persona, 'otherMember'>;
 const WHO: Who[] = ['anonymous', 'member', 'reviewer', 'lead', 'otherLead', 'admin'];
 
 type Case = { name: string; method: 'GET' | 'POST'; path: (ids: Ids) => string; form?: Record<string, string>; json?: unknown; expect: Record<Who, number> };
-type Ids = { own: string; other: string };
+type Ids = { own: string; other: string; observation: string };
 
 const page = (signedIn: number) => ({ anonymous: 303, member: signedIn, reviewer: signedIn, lead: signedIn, otherLead: signedIn, admin: signedIn });
 
@@ -17,7 +17,6 @@ const CASES: Case[] = [
 	{ name: 'profile', method: 'GET', path: () => '/profile', expect: page(200) },
 	{ name: 'recipes', method: 'GET', path: () => '/recipes', expect: page(200) },
 	{ name: 'shared', method: 'GET', path: () => '/shared', expect: page(200) },
-	{ name: 'templates', method: 'GET', path: () => '/templates', expect: page(200) },
 	// One team: straight to it (303); the admin has none and sees the list (200).
 	{ name: 'team shortcut', method: 'GET', path: () => '/team', expect: { ...page(303), admin: 200 } },
 	{ name: 'own team page', method: 'GET', path: (i) => `/teams/${i.own}`, expect: { anonymous: 303, member: 200, reviewer: 200, lead: 200, otherLead: 403, admin: 200 } },
@@ -29,6 +28,22 @@ const CASES: Case[] = [
 		// Allowed people reach validation (400 for the bad address); others are stopped first.
 		expect: { anonymous: 401, member: 403, reviewer: 403, lead: 400, otherLead: 403, admin: 400 }
 	},
+	{ name: 'team observations', method: 'GET', path: (i) => `/teams/${i.own}/observations`, expect: { anonymous: 303, member: 200, reviewer: 200, lead: 200, otherLead: 404, admin: 403 } },
+	{ name: 'observation page', method: 'GET', path: (i) => `/observations/${i.observation}`, expect: { anonymous: 303, member: 200, reviewer: 200, lead: 200, otherLead: 404, admin: 404 } },
+	{ name: 'team rule policy', method: 'GET', path: (i) => `/teams/${i.own}/rules`, expect: { anonymous: 303, member: 200, reviewer: 200, lead: 200, otherLead: 403, admin: 200 } },
+	{
+		name: 'save rule policy action',
+		method: 'POST',
+		path: (i) => `/teams/${i.own}/rules?/savePolicy`,
+		form: { 'rule:no.such_rule': 'off' },
+		expect: { anonymous: 401, member: 403, reviewer: 403, lead: 400, otherLead: 403, admin: 403 }
+	},
+	{ name: 'API observations list', method: 'GET', path: (i) => `/api/v1/teams/${i.own}/observations`, expect: { anonymous: 401, member: 200, reviewer: 200, lead: 200, otherLead: 404, admin: 403 } },
+	{ name: 'API observation upload (empty)', method: 'POST', path: (i) => `/api/v1/teams/${i.own}/observations`, json: {}, expect: { anonymous: 401, member: 400, reviewer: 400, lead: 400, otherLead: 404, admin: 403 } },
+	{ name: 'API validate (bad recipe)', method: 'POST', path: () => '/api/v1/validate', json: { recipe: {} }, expect: { anonymous: 401, member: 400, reviewer: 400, lead: 400, otherLead: 400, admin: 400 } },
+	{ name: 'API render (bad recipe)', method: 'POST', path: () => '/api/v1/render', json: { recipe: {} }, expect: { anonymous: 401, member: 400, reviewer: 400, lead: 400, otherLead: 400, admin: 400 } },
+	{ name: 'API create recipe (bad body)', method: 'POST', path: (i) => `/api/v1/teams/${i.own}/recipes`, json: {}, expect: { anonymous: 401, member: 400, reviewer: 400, lead: 400, otherLead: 404, admin: 403 } },
+	{ name: 'templates page', method: 'GET', path: () => '/templates', expect: page(200) },
 	{ name: 'admin page', method: 'GET', path: () => '/admin', expect: { anonymous: 303, member: 403, reviewer: 403, lead: 403, otherLead: 403, admin: 200 } },
 	{ name: 'API me', method: 'GET', path: () => '/api/v1/me', expect: { anonymous: 401, member: 200, reviewer: 200, lead: 200, otherLead: 200, admin: 200 } },
 	{ name: 'API team members', method: 'GET', path: (i) => `/api/v1/teams/${i.own}/members`, expect: { anonymous: 401, member: 200, reviewer: 200, lead: 200, otherLead: 404, admin: 200 } },
@@ -49,7 +64,8 @@ const contexts = new Map<Who, APIRequestContext>();
 let ids: Ids;
 
 test.beforeAll(async ({ baseURL }) => {
-	ids = { own: await teamId('stellar-nurseries'), other: await teamId('tidewater-transients') };
+	const obs = await query<{ id: string }>("select id from observations where original_filename = 'corrie-flats-demo.json' limit 1");
+	ids = { own: await teamId('stellar-nurseries'), other: await teamId('tidewater-transients'), observation: obs[0]?.id ?? '' };
 	for (const who of WHO) {
 		const headers: Record<string, string> = { origin: baseURL ?? '' };
 		if (who !== 'anonymous') headers.cookie = `authjs.session-token=${await seedSession(PEOPLE[who])}`;
