@@ -80,3 +80,13 @@ describe('parseRecipeExport', () => {
 		if (!result.ok) expect(result.error.issues[0]?.message).toMatch(/expected valid JSON/);
 	});
 });
+
+describe('user text in recipes', () => {
+	it('rejects a title with an unpaired UTF-16 surrogate (it cannot be written as UTF-8)', () => {
+		const recipe = createDefaultRecipe(createDemoObservation());
+		const bad = { ...recipe, title: 'south\ud800' };
+		const r = recipeParamsSchema.safeParse(bad);
+		expect(r.success).toBe(false);
+		expect(recipeParamsSchema.safeParse({ ...recipe, title: 'emoji 🌌 ok' }).success).toBe(true);
+	});
+});

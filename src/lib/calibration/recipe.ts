@@ -40,7 +40,12 @@ export const fluxModelSchema = z.discriminatedUnion('kind', [
 ]);
 export type FluxModel = z.infer<typeof fluxModelSchema>;
 
-const fieldName = z.string().min(1).max(200);
+// Lone UTF-16 surrogates cannot be encoded as UTF-8: a program printing such a name would
+// crash, so user text must be well-formed.
+const LONE_SURROGATE = /[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/;
+const text = (min: number, max: number) =>
+	z.string().min(min).max(max).refine((v) => !LONE_SURROGATE.test(v), { message: 'contains an unpaired UTF-16 surrogate; use well-formed Unicode text' });
+const fieldName = text(1, 200);
 const fieldList = z.array(fieldName).max(1000);
 const minSnr = z.number().positive();
 
@@ -52,7 +57,7 @@ export const stepSchema = z.discriminatedUnion('kind', [
 		fields: fieldList,
 		interval: solutionIntervalSchema,
 		min_snr: minSnr,
-		without_delay_reason: z.string().min(1).max(1000).optional()
+		without_delay_reason: text(1, 1000).optional()
 	}),
 	z.strictObject({
 		kind: z.literal('gain'),
@@ -76,8 +81,8 @@ export type StepOf<K extends StepKind> = Extract<Step, { kind: K }>;
 /** The recipe parameters: the agreed contract between helpers (snake_case keys: it is a file format). */
 export const recipeParamsSchema = z.strictObject({
 	schema_version: z.literal(1),
-	title: z.string().min(1).max(200),
-	notes: z.string().max(5000).default(''),
+	title: text(1, 200),
+	notes: text(0, 5000).default(''),
 	spectral_window_id: z.int().min(0),
 	fields: z.array(z.strictObject({ name: fieldName, roles: z.array(fieldRoleSchema).max(5) })).max(1000),
 	flux_models: z.array(z.strictObject({ field: fieldName, model: fluxModelSchema })).max(1000),
@@ -85,7 +90,7 @@ export const recipeParamsSchema = z.strictObject({
 	targets: z
 		.array(z.strictObject({ field: fieldName, gain_calibrator: fieldName, interpolation: z.enum(['linear', 'nearest']) }))
 		.max(1000),
-	reference_antenna: z.strictObject({ primary: z.string().min(1).max(200), fallbacks: z.array(z.string().min(1).max(200)).max(16) }),
+	reference_antenna: z.strictObject({ primary: text(1, 200), fallbacks: z.array(text(1, 200)).max(16) }),
 	clean_channels: z.array(channelRangeSchema).max(256),
 	excluded_channels: z.array(channelRangeSchema).max(4096),
 	steps: z.array(stepSchema).max(32)
