@@ -184,6 +184,12 @@ def simulate(opts):
         vis[:, c, :] = 50.0 + 50.0j
         flag[:, c, :] = True
     weight = np.full((n_row, n_corr), 1.0 / sigma ** 2, dtype=np.float32)
+    if opts.shuffle_rows:
+        # same data in a random row order (readers must not rely on any order)
+        perm = np.random.default_rng(opts.seed + 1000).permutation(n_row)
+        vis, flag, weight, row_time, row_scan, row_field, ant1, ant2, uvw = (
+            a[perm] for a in (vis, flag, weight, row_time, row_scan, row_field, ant1, ant2, uvw)
+        )
     arrays = {
         "format": np.array("phasewright.visibility-bundle"),
         "format_version": np.array(1, dtype=np.int16),
@@ -294,6 +300,7 @@ def main():
     b.add_argument("--dead-antenna", type=int, default=-1, help="antenna index flagged throughout (-1: none)")
     b.add_argument("--ref-outage-scan", type=int, default=0, help="scan number in which A01 is flagged (0: none)")
     b.add_argument("--rfi", default="", help="comma list of channels hit by interference (flagged)")
+    b.add_argument("--shuffle-rows", action="store_true", help="write the rows in a random order")
     b.add_argument("--no-truth-bandpass", dest="truth_bandpass", action="store_false")
     bad = sub.add_parser("bad")
     bad.add_argument("--from", dest="source", required=True)

@@ -81,3 +81,22 @@ export async function rerenderVersion(db: Executor, v: { recipeId: string; versi
 	const r = renderWithTemplate({ template, recipe: v.params, observation, recipeId: v.recipeId, recipeVersion: v.version });
 	return r.ok ? { ok: true, value: r.value.program } : r;
 }
+
+/**
+ * Saves the working draft (never blocked by findings). `baseRevision` must match the stored
+ * revision: a second editor with a stale copy gets a conflict instead of overwriting.
+ */
+export async function saveDraft(db: Executor, input: { recipeId: string; baseRevision: number; params: unknown; userId: string | null; now: Date }): Promise<DomainResult<{ revision: number }>> {
+	const parsed = parseRecipeParamsValue(input.params);
+	if (!parsed.ok) return fail('validation_failed', 'The draft does not fit the recipe format.', parsed.error.issues);
+	return db.transaction(async (tx) => {
+		const recipe = await getRecipe(tx, input.recipeId, true);
+		if (!recipe) return fail('not_found', 'No such recipe.');
+		if (recipe.draftRevision !== input.baseRevision) {
+			return fail('conflict', `Someone else saved this recipe after you opened it (you edited revision ${input.baseRevision}, it is now at ${recipe.draftRevision}). Reload to see their changes; your edit was not saved.`);
+		}
+		const revision = recipe.draftRevision + 1;
+		await updateDraft(tx, recipe.id, { draft: parsed.value, title: parsed.value.title, revision, userId: input.userId, now: input.now });
+		return { ok: true, value: { revision } };
+	});
+}

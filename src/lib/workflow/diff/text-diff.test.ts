@@ -65,7 +65,7 @@ describe('diffText: unified hunks', () => {
 			'+Deeper and more profound,',
 			'+The door of all subtleties!'
 		]);
-		expect(result.stats).toEqual({ added: 5, removed: 3, modified: 1, hunks: 2, identical: false });
+		expect(result.stats).toEqual({ added: 5, removed: 3, modified: 1, hunks: 2, identical: false, exact: true });
 	});
 
 	it('gives an empty range the number of the line before it, as diff -U0 does', () => {
@@ -81,7 +81,7 @@ describe('diffText: unified hunks', () => {
 	});
 
 	it('returns no hunks for identical texts', () => {
-		expect(diffText(LAO, LAO)).toEqual({ hunks: [], stats: { added: 0, removed: 0, modified: 0, hunks: 0, identical: true } });
+		expect(diffText(LAO, LAO)).toEqual({ hunks: [], stats: { added: 0, removed: 0, modified: 0, hunks: 0, identical: true, exact: true } });
 	});
 
 	it('agrees with the diff library’s own structured patch on seeded random edits', () => {
@@ -144,6 +144,24 @@ describe('diffText: side-by-side rows', () => {
 			{ text: '  # gain solve interval', changed: false }
 		]);
 		expect(row?.right?.spans?.filter((s) => s.changed).map((s) => s.text)).toEqual(['30']);
+	});
+});
+
+describe('diffText: large rewrites', () => {
+	it('stops word highlights after a budget, marking later pairs changed as a whole', () => {
+		const a = Array.from({ length: 1000 }, (_, i) => `keep = ${i} # old`).join('\n') + '\n';
+		const b = Array.from({ length: 1000 }, (_, i) => `keep = ${i} # new`).join('\n') + '\n';
+		const rows = diffText(a, b).hunks.flatMap((h) => h.rows);
+		expect(rows).toHaveLength(1000);
+		expect(rows[0]?.right?.spans?.filter((s) => s.changed).map((s) => s.text)).toEqual(['new']);
+		expect(rows[999]?.right?.spans).toEqual([{ text: 'keep = 999 # new', changed: true }]);
+	});
+
+	it('reports when the quicker edit script was used for texts that share little', () => {
+		const a = Array.from({ length: 800 }, (_, i) => `left_${i}`).join('\n');
+		const b = Array.from({ length: 800 }, (_, i) => `right_${i}`).join('\n');
+		const result = diffText(a, b);
+		expect(result.stats).toMatchObject({ exact: false, added: 800, removed: 800, hunks: 1 });
 	});
 });
 

@@ -1,4 +1,5 @@
-import { diffLines, diffWordsWithSpace } from 'diff';
+import { diffWordsWithSpace } from 'diff';
+import { listLineOps } from './line-ops';
 
 // Line diff of two rendered programs as plain data: unified hunks, a side-by-side row
 // model and intra-line highlights. The view only draws it (STYLE.md §7).
@@ -21,38 +22,33 @@ export type SideCell = { number: number; text: string; spans?: Span[]; noNewline
 export type SideBySideRow = { kind: 'context' | 'changed' | 'removed' | 'added'; left: SideCell | null; right: SideCell | null };
 /** Ranges follow the unified format: a start of 0 lines is the line before the change. */
 export type TextHunk = { oldStart: number; oldLines: number; newStart: number; newLines: number; header: string; lines: DiffLine[]; rows: SideBySideRow[] };
-export type TextDiffStats = { added: number; removed: number; modified: number; hunks: number; identical: boolean };
+/** `exact` is false when the texts differ so much that a quicker, possibly longer, edit script was used. */
+export type TextDiffStats = { added: number; removed: number; modified: number; hunks: number; identical: boolean; exact: boolean };
 export type TextDiff = { hunks: TextHunk[]; stats: TextDiffStats };
 
 const DEFAULT_CONTEXT = 3;
 /** Past this length a line pair is marked changed as a whole: word diffs of huge lines cost more than they show. */
 const MAX_HIGHLIGHT_CHARS = 2000;
+/** Characters word-diffed per text diff; a rewrite of a whole program is shown without word highlights past it. */
+const HIGHLIGHT_BUDGET_CHARS = 12_000;
 
-function splitLines(value: string): { text: string; last: boolean }[] {
-	const parts = value.split('\n');
-	const endsWithNewline = parts[parts.length - 1] === '';
-	if (endsWithNewline) parts.pop();
-	return parts.map((text, i) => ({ text, last: !endsWithNewline && i === parts.length - 1 }));
-}
-
-function listLineOps(a: string, b: string): DiffLine[] {
-	const ops: DiffLine[] = [];
+function numberLines(a: string, b: string): { lines: DiffLine[]; exact: boolean } {
+	const { ops, exact } = listLineOps(a, b);
+	const lines: DiffLine[] = [];
 	let oldNumber = 0;
 	let newNumber = 0;
-	for (const change of diffLines(a, b)) {
-		const kind: LineKind = change.added ? 'added' : change.removed ? 'removed' : 'context';
-		for (const { text, last } of splitLines(change.value)) {
-			const line: DiffLine = {
-				kind,
-				oldNumber: kind === 'added' ? null : ++oldNumber,
-				newNumber: kind === 'removed' ? null : ++newNumber,
-				text
-			};
-			if (last) line.noNewlineAtEnd = true;
-			ops.push(line);
-		}
+	for (const { kind, line: raw } of ops) {
+		const ended = raw.endsWith('\n');
+		const line: DiffLine = {
+			kind,
+			oldNumber: kind === 'added' ? null : ++oldNumber,
+			newNumber: kind === 'removed' ? null : ++newNumber,
+			text: ended ? raw.slice(0, -1) : raw
+		};
+		if (!ended) line.noNewlineAtEnd = true;
+		lines.push(line);
 	}
-	return ops;
+	return { lines, exact };
 }
 
 function mergeSpans(parts: Span[]): Span[] {
@@ -68,9 +64,15 @@ function mergeSpans(parts: Span[]): Span[] {
 
 /** Word-level highlights for a removed line and the added line that replaced it. */
 export function highlightPair(before: string, after: string): { left: Span[]; right: Span[] } {
-	if (before.length > MAX_HIGHLIGHT_CHARS || after.length > MAX_HIGHLIGHT_CHARS) {
+	return highlightWithin(before, after, { chars: Infinity });
+}
+
+function highlightWithin(before: string, after: string, budget: { chars: number }): { left: Span[]; right: Span[] } {
+	const cost = before.length + after.length;
+	if (before.length > MAX_HIGHLIGHT_CHARS || after.length > MAX_HIGHLIGHT_CHARS || cost > budget.chars) {
 		return { left: [{ text: before, changed: true }], right: [{ text: after, changed: true }] };
 	}
+	budget.chars -= cost;
 	const left: Span[] = [];
 	const right: Span[] = [];
 	for (const part of diffWordsWithSpace(before, after)) {
@@ -89,7 +91,7 @@ function toCell(line: DiffLine, number: number | null): SideCell | null {
 }
 
 /** Pairs each run of removed lines with the added lines after it; adds highlights to the pairs. */
-function buildRows(lines: DiffLine[]): { rows: SideBySideRow[]; modified: number } {
+function buildRows(lines: DiffLine[], budget: { chars: number }): { rows: SideBySideRow[]; modified: number } {
 	const rows: SideBySideRow[] = [];
 	let modified = 0;
 	let i = 0;
@@ -112,7 +114,7 @@ function buildRows(lines: DiffLine[]): { rows: SideBySideRow[]; modified: number
 			const left = removed[k];
 			const right = added[k];
 			if (left && right) {
-				const spans = highlightPair(left.text, right.text);
+				const spans = highlightWithin(left.text, right.text, budget);
 				left.spans = spans.left;
 				right.spans = spans.right;
 				modified++;
@@ -131,7 +133,7 @@ function formatRange(start: number, count: number): string {
 /** Diff two program texts line by line into unified hunks with `context` lines around each change (default 3). */
 export function diffText(a: string, b: string, options: { context?: number } = {}): TextDiff {
 	const context = Math.max(0, Math.floor(options.context ?? DEFAULT_CONTEXT));
-	const ops = a === b ? [] : listLineOps(a, b);
+	const { lines: ops, exact } = a === b ? { lines: [], exact: true } : numberLines(a, b);
 	const changeAt: number[] = [];
 	ops.forEach((op, i) => {
 		if (op.kind !== 'context') changeAt.push(i);
@@ -149,6 +151,7 @@ export function diffText(a: string, b: string, options: { context?: number } = {
 	let added = 0;
 	let removed = 0;
 	let modified = 0;
+	const budget = { chars: HIGHLIGHT_BUDGET_CHARS };
 	let scanned = 0;
 	let oldBefore = 0;
 	let newBefore = 0;
@@ -165,7 +168,7 @@ export function diffText(a: string, b: string, options: { context?: number } = {
 		const newLines = lines.filter((l) => l.newNumber !== null).length;
 		const oldStart = oldLines > 0 ? oldBefore + 1 : oldBefore;
 		const newStart = newLines > 0 ? newBefore + 1 : newBefore;
-		const built = buildRows(lines);
+		const built = buildRows(lines, budget);
 		added += lines.filter((l) => l.kind === 'added').length;
 		removed += lines.filter((l) => l.kind === 'removed').length;
 		modified += built.modified;
@@ -179,5 +182,5 @@ export function diffText(a: string, b: string, options: { context?: number } = {
 			rows: built.rows
 		});
 	}
-	return { hunks, stats: { added, removed, modified, hunks: hunks.length, identical: a === b } };
+	return { hunks, stats: { added, removed, modified, hunks: hunks.length, identical: a === b, exact } };
 }

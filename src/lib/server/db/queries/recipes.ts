@@ -1,6 +1,6 @@
-import { and, desc, eq, max } from 'drizzle-orm';
+import { and, asc, desc, eq, ilike, inArray, max, or, sql } from 'drizzle-orm';
 import type { Executor } from '../client';
-import { recipes, recipeVersions, users } from '../schema';
+import { observations, recipes, recipeVersions, teams, users } from '../schema';
 import type { RecipeParams } from '$lib/calibration/recipe';
 import type { Finding } from '$lib/calibration/validate';
 
@@ -100,4 +100,54 @@ export async function getRecipeVersion(db: Executor, recipeId: string, version: 
 
 export async function listRecipeVersions(db: Executor, recipeId: string): Promise<RecipeVersionRow[]> {
 	return db.select(versionColumns).from(recipeVersions).leftJoin(users, eq(users.id, recipeVersions.authorId)).where(eq(recipeVersions.recipeId, recipeId)).orderBy(desc(recipeVersions.version));
+}
+
+export type RecipeListItem = {
+	id: string;
+	teamId: string;
+	teamName: string;
+	title: string;
+	observationName: string | null;
+	latestVersion: number | null;
+	lastEditor: string | null;
+	updatedAt: Date;
+};
+
+export const RECIPE_SORTS = ['updated', 'title', 'observation', 'version'] as const;
+export type RecipeSort = (typeof RECIPE_SORTS)[number];
+
+/** Recipes of the given teams, filtered by text, sorted, one page (offset pagination). */
+export async function listRecipes(
+	db: Executor,
+	q: { teamIds: readonly string[]; text: string; sort: RecipeSort; descending: boolean; offset: number; limit: number }
+): Promise<{ items: RecipeListItem[]; total: number }> {
+	if (q.teamIds.length === 0) return { items: [], total: 0 };
+	const latest = sql<number | null>`(select max(${recipeVersions.version}) from ${recipeVersions} where ${recipeVersions.recipeId} = ${recipes.id})`;
+	const pattern = `%${q.text.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+	const where = and(
+		inArray(recipes.teamId, [...q.teamIds]),
+		q.text === '' ? undefined : or(ilike(recipes.title, pattern), ilike(observations.name, pattern))
+	);
+	const sortColumn = { updated: recipes.updatedAt, title: recipes.title, observation: observations.name, version: latest }[q.sort];
+	const rows = await db
+		.select({
+			id: recipes.id,
+			teamId: recipes.teamId,
+			teamName: teams.name,
+			title: recipes.title,
+			observationName: observations.name,
+			latestVersion: latest,
+			lastEditor: users.email,
+			updatedAt: recipes.updatedAt,
+			total: sql<number>`count(*) over ()`.mapWith(Number)
+		})
+		.from(recipes)
+		.innerJoin(teams, eq(teams.id, recipes.teamId))
+		.leftJoin(observations, eq(observations.id, recipes.observationId))
+		.leftJoin(users, eq(users.id, recipes.updatedBy))
+		.where(where)
+		.orderBy(q.descending ? sql`${sortColumn} desc nulls last` : sql`${sortColumn} asc nulls last`, asc(recipes.id))
+		.limit(q.limit)
+		.offset(q.offset);
+	return { items: rows.map(({ total: _t, ...r }) => r), total: rows[0]?.total ?? 0 };
 }
