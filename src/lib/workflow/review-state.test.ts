@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import type { Actor, TeamRole } from './permissions';
-import { REVIEW_ACTIONS, REVIEW_STATES, listAllowedActions, transition, type ReviewAction, type ReviewState } from './review-state';
+import { REVIEW_ACTIONS, REVIEW_STATES, listAllowedActions, reviewActionSchema, transition, type ReviewAction, type ReviewState } from './review-state';
 
 // The review rules as the brief and DESIGN.md ("Review", "Roles and permissions") state them,
 // written out by hand so that a change in transition() shows up here.
@@ -152,5 +152,14 @@ describe('listAllowedActions', () => {
 	});
 	it('offers nothing on an approved version', () => {
 		expect(listAllowedActions({ state: 'approved', actor: actorFor('lead'), version: cleanVersion, teamId: TEAM })).toEqual([]);
+	});
+});
+
+describe('reviewActionSchema', () => {
+	it('accepts the four actions and rejects anything else with a message listing them', () => {
+		expect(REVIEW_ACTIONS.map((a) => reviewActionSchema.safeParse(a).success)).toEqual([true, true, true, true]);
+		const bad = reviewActionSchema.safeParse('merge');
+		expect(bad.success).toBe(false);
+		if (!bad.success) expect(bad.error.issues[0]?.message).toBe('Choose a review action: submit, approve, request_changes or withdraw.');
 	});
 });

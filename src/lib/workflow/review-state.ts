@@ -1,3 +1,4 @@
+import { z } from 'zod';
 import { can, type Actor } from './permissions';
 import { fail, type DomainResult } from './errors';
 
@@ -10,6 +11,9 @@ export type ReviewState = (typeof REVIEW_STATES)[number];
 
 export const REVIEW_ACTIONS = ['submit', 'approve', 'request_changes', 'withdraw'] as const;
 export type ReviewAction = (typeof REVIEW_ACTIONS)[number];
+
+/** A review action from a form or API request. */
+export const reviewActionSchema = z.enum(REVIEW_ACTIONS, { message: 'Choose a review action: submit, approve, request_changes or withdraw.' });
 
 /** The state every newly saved version starts in. */
 export const INITIAL_REVIEW_STATE: ReviewState = 'draft';

@@ -161,8 +161,9 @@ export function diffText(a: string, b: string, options: { context?: number } = {
 		const lines = ops.slice(from, to + 1);
 		for (; scanned < from; scanned++) {
 			const skipped = ops[scanned];
-			if (skipped?.oldNumber !== null) oldBefore++;
-			if (skipped?.newNumber !== null) newBefore++;
+			if (!skipped) break;
+			if (skipped.oldNumber !== null) oldBefore++;
+			if (skipped.newNumber !== null) newBefore++;
 		}
 		const oldLines = lines.filter((l) => l.oldNumber !== null).length;
 		const newLines = lines.filter((l) => l.newNumber !== null).length;
