@@ -5,7 +5,7 @@ Invented data: an invented array, an invented gain calibrator and target; the fl
 follows the published 3C286 standard (Perley & Butler 2017 coefficients, via METHODS.md 8).
 numpy only, seeded: the same options give the same bundle.
 
-  python3 simulate.py bundle --out B.npz --truth T.json [options]
+  python3 simulate.py bundle --out B.npz --truth T.json [--preset demo|bench] [options]
   python3 simulate.py bad --from B.npz --kind KIND --out BAD.npz
 
 Corruption model (METHODS.md 1): vis = g_p conj(g_q) M + noise, g_p = G_p(t) B_p(nu) K_p(nu),
@@ -34,6 +34,14 @@ FIELD_INTENTS = {
 FIELD_RADEC_DEG = {"flux": (202.784534, 30.509155), "gain": (198.0, 27.5), "target": (200.5, 28.2), "gain2": (204.0, 31.0)}
 # invented target: point sources (l, m in radians, flux density in Jy)
 TARGET_SOURCES = [(0.0, 0.0, 0.6), (3.0e-4, -2.0e-4, 0.35), (-4.0e-4, 1.5e-4, 0.25)]
+
+
+# size presets: the program tests use the defaults (8 antennas, 64 channels); "demo" is a small
+# bundle for the demo scenario's invented 28-dish array (1.0-1.5 GHz); "bench" is bench:program's
+PRESETS = {
+    "demo": {"n_ant": 28, "n_chan": 256, "schedule": "flux:15,gain:5,target:20,gain:5,target:20,gain:5", "sigma": 0.3, "dead_antenna": 11, "rfi": "40,41,42", "extent": 4000.0},
+    "bench": {"n_ant": 40, "n_chan": 1024, "schedule": "flux:20,gain:10,target:50,gain:10,target:50,gain:10,target:40,gain:10", "sigma": 0.3, "dead_antenna": 7, "rfi": "102,103", "truth_bandpass": False},
+}
 
 
 def flux_3c286(freq_hz):
@@ -306,7 +314,13 @@ def main():
     bad.add_argument("--from", dest="source", required=True)
     bad.add_argument("--kind", required=True)
     bad.add_argument("--out", required=True)
+    b.add_argument("--preset", choices=sorted(PRESETS), help="size preset; explicit options given on the command line win")
     opts = parser.parse_args()
+    if opts.command == "bundle" and opts.preset:
+        given = {a.split("=")[0] for a in sys.argv[2:] if a.startswith("--")}
+        for key, value in PRESETS[opts.preset].items():
+            if "--" + key.replace("_", "-") not in given:
+                setattr(opts, key, value)
     if opts.command == "bad":
         write_bad(opts.source, opts.kind, opts.out)
         return 0

@@ -35,6 +35,7 @@ type UnitResults = {
 	interpolation: { times: number[]; amp: number[]; phase_deg: number[]; nearest_amp: number[]; jumps: number; skip_flagged_amp: number };
 	bootstrap: { flux: number; error: number; n: number; rescale: number; n_with_dropped: number; flux_with_dropped: number };
 	flux_model: { pb2017_3c286: number[]; power_law_2p8ghz: number };
+	parameters: { title: string; notes: string; fields: string[]; targets: { field: string }[] };
 };
 
 let dir = '';
@@ -150,5 +151,16 @@ describe('flux bootstrap', () => {
 		[17.7052, 15.0838, 9.9085].forEach((v, i) => expect(r.flux_model.pb2017_3c286[i]).toBeCloseTo(v, 3));
 		// manual power law 2 Jy at 1.4 GHz, alpha -0.7, at 2.8 GHz: 2 * 2^-0.7 = 1.2311 (arithmetic)
 		expect(r.flux_model.power_law_2p8ghz).toBeCloseTo(2 * Math.pow(2, -0.7), 9);
+	});
+});
+
+describe('parameters block', () => {
+	it('carries hostile user text as data, exactly', () => {
+		// the test recipe's title, notes and a field name hold quotes, newlines, U+2028 and {{ }}
+		const recipe = createSimRecipe();
+		expect(r.parameters.title).toBe(recipe.title);
+		expect(r.parameters.notes).toBe(recipe.notes);
+		expect(r.parameters.fields).toEqual(recipe.fields.map((f) => f.name));
+		expect(r.parameters.targets[0]?.field).toBe(recipe.targets[0]?.field);
 	});
 });

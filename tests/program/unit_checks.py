@@ -235,6 +235,7 @@ def main(path):
         "interpolation": check_interpolation(prog),
         "bootstrap": check_bootstrap(prog),
         "flux_model": check_flux_model(prog),
+        "parameters": {"title": prog.TITLE, "notes": prog.NOTES, "fields": list(prog.FIELD_ROLES), "targets": prog.TARGETS},
     }))
 
 

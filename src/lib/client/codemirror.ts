@@ -77,6 +77,8 @@ export type CodeViewHandle = {
 	getText(): string;
 	/** Scroll a 1-based line into view and put the cursor on it. */
 	revealLine(line: number): void;
+	/** Select the whole document and focus it (the copy fallback: the reader presses Ctrl+C). */
+	selectAll(): void;
 	destroy(): void;
 };
 
@@ -140,6 +142,10 @@ export function createCodeView(options: CodeViewOptions): CodeViewHandle {
 			const n = Math.min(Math.max(1, Math.round(line)), view.state.doc.lines);
 			const pos = view.state.doc.line(n).from;
 			view.dispatch({ selection: { anchor: pos }, effects: EditorView.scrollIntoView(pos, { y: 'center' }) });
+		},
+		selectAll() {
+			view.dispatch({ selection: { anchor: 0, head: view.state.doc.length } });
+			view.focus();
 		},
 		destroy() {
 			onchange = undefined;

@@ -1,12 +1,14 @@
 import type { Executor } from '../db/client';
 import { getRulePolicy } from '../db/queries/teams';
-import { getObservation } from '../db/queries/observations';
-import { getLatestVersionNumber, getRecipe, insertRecipe, insertRecipeVersion, updateDraft } from '../db/queries/recipes';
+import { findObservationBySha, getObservation } from '../db/queries/observations';
+import { getLatestVersionNumber, getRecipe, getRecipeVersion, insertRecipe, insertRecipeVersion, updateDraft } from '../db/queries/recipes';
 import { getTemplateVersionById } from '../db/queries/templates';
 import { createDefaultRecipe } from '$lib/calibration/defaults';
-import { parseRecipeParamsValue, type RecipeParams } from '$lib/calibration/recipe';
+import { createRecipeExport, parseRecipeExport, parseRecipeParamsValue, type RecipeExport, type RecipeParams } from '$lib/calibration/recipe';
 import { hasErrors, validate, type Finding } from '$lib/calibration/validate';
-import { paramsSha256 } from '$lib/script/sha256';
+import { paramsSha256, textSha256 } from '$lib/script/sha256';
+import { programFilename } from '$lib/script/filename';
+import { uploadObservation } from './observations';
 import { fail, type DomainResult } from '$lib/workflow/errors';
 import { syncStarterTemplates } from './templates';
 import { STARTER_FILES, STARTER_TEMPLATE_NAME } from '../templates/starter';
@@ -99,4 +101,46 @@ export async function saveDraft(db: Executor, input: { recipeId: string; baseRev
 		await updateDraft(tx, recipe.id, { draft: parsed.value, title: parsed.value.title, revision, userId: input.userId, now: input.now });
 		return { ok: true, value: { revision } };
 	});
+}
+
+/**
+ * Imports a `phasewright.recipe` export into a team as a new recipe (never overwriting one).
+ * Its embedded observation is stored as the team's observation, or reused when the team
+ * already has the same summary.
+ */
+export async function importRecipe(db: Executor, input: { teamId: string; text: string; filename: string; userId: string | null }): Promise<DomainResult<{ id: string }>> {
+	const parsed = parseRecipeExport(input.text);
+	if (!parsed.ok) return fail('validation_failed', `${input.filename} is not a phasewright.recipe v1 export.`, parsed.error.issues);
+	const exp = parsed.value;
+	return db.transaction(async (tx) => {
+		const bytes = new TextEncoder().encode(`${JSON.stringify(exp.observation, null, 2)}\n`);
+		const uploaded = await uploadObservation(tx, { teamId: input.teamId, bytes, filename: `${input.filename} (embedded observation)`, userId: input.userId });
+		let observationId: string;
+		if (uploaded.ok) observationId = uploaded.value.id;
+		else {
+			const existing = uploaded.error.code === 'conflict' ? await findObservationBySha(tx, input.teamId, textSha256(new TextDecoder().decode(bytes))) : null;
+			if (!existing) return uploaded;
+			observationId = existing.id;
+		}
+		const row = await insertRecipe(tx, { teamId: input.teamId, title: exp.recipe.title, observationId, draft: exp.recipe, userId: input.userId });
+		return { ok: true, value: row };
+	});
+}
+
+/** The `phasewright.recipe` v1 export of a saved version. */
+export async function exportVersion(db: Executor, recipeId: string, version: number): Promise<DomainResult<{ export: RecipeExport; filename: string }>> {
+	const recipe = await getRecipe(db, recipeId);
+	const v = recipe ? await getRecipeVersion(db, recipeId, version) : null;
+	if (!recipe || !v) return fail('not_found', 'No such recipe version.');
+	const obs = recipe.observationId ? await getObservation(db, recipe.observationId) : null;
+	if (!obs) return fail('not_found', 'The observation of this recipe is no longer stored, so it cannot be exported with it.');
+	const template = await getTemplateVersionById(db, v.templateVersionId);
+	if (!template) return fail('internal', 'The pinned template version is missing.');
+	return {
+		ok: true,
+		value: {
+			export: createRecipeExport({ title: v.params.title, observation: obs.summary, recipe: v.params, template: { name: template.templateName, version: template.version } }),
+			filename: programFilename(v.params.title, v.version).replace(/\.py$/, '.recipe.json')
+		}
+	};
 }

@@ -1,0 +1,143 @@
+/**
+ * The program rendered from recipe variants: every solution-interval mode, phase-only gains,
+ * nearest-neighbour transfer, missing steps and fields the bundle does not have.
+ */
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { RecipeParamsInput } from '../../src/lib/calibration/recipe';
+import { createSimRecipe, REPO_ROOT, runPython, SIM_FIELDS, simulateBundle, writeProgram } from './program-helpers';
+
+type Report = {
+	steps: { kind: string; n_solutions: number; n_failed: number }[];
+	gain?: { time_s: number[]; field: string[]; amplitude: (number | null)[][][]; phase_deg: (number | null)[][][] };
+	flux: { field: string; derived_jy: number | null }[];
+	delay?: unknown;
+	bandpass?: unknown;
+	checks: { code: string; status: string }[];
+};
+
+let dir = '';
+let bundle = '';
+let counter = 0;
+// Simulation set-up: flux-calibrator scan of 20 integrations of 8 s, then gain/target/gain/target/gain
+// scans of 10 integrations (80 s); 8 antennas, no dead antenna.
+const SIM = ['--n-ant', '8', '--n-chan', '64', '--sigma', '0.1', '--schedule', 'flux:20,gain,target,gain,target,gain'];
+
+function runVariant(change: (r: RecipeParamsInput) => void): { status: number | null; stderr: string; stdout: string; report: Report | null } {
+	counter += 1;
+	const sub = join(dir, `v${String(counter)}`);
+	const program = writeProgram(sub, createSimRecipe(change));
+	const run = runPython([program, 'run', bundle, '--out', join(sub, 'out')]);
+	const report = run.status === 0 ? (JSON.parse(readFileSync(join(sub, 'out', 'report.json'), 'utf8')) as Report) : null;
+	return { status: run.status, stderr: run.stderr, stdout: run.stdout, report };
+}
+
+function gainStep(r: RecipeParamsInput): Extract<RecipeParamsInput['steps'][number], { kind: 'gain' }> {
+	const step = r.steps.find((s) => s.kind === 'gain');
+	if (!step || step.kind !== 'gain') throw new Error('test recipe has no gain step');
+	return step;
+}
+
+beforeAll(() => {
+	dir = mkdtempSync(join(tmpdir(), 'phasewright-variants-'));
+	bundle = join(dir, 'sim.npz');
+	simulateBundle(bundle, join(dir, 'truth.json'), SIM);
+}, 60_000);
+
+afterAll(() => {
+	if (dir) rmSync(dir, { recursive: true, force: true });
+});
+
+describe('solution intervals', () => {
+	it('makes one gain solution per 40 s bin within each scan', () => {
+		// 160 s flux scan -> 4 bins; three 80 s gain scans -> 2 bins each
+		const v = runVariant((r) => {
+			gainStep(r).interval = { mode: 'seconds', seconds: 40 };
+		});
+		expect(v.status, v.stderr).toBe(0);
+		expect(v.report?.gain?.time_s).toHaveLength(4 + 3 * 2);
+	});
+
+	it('makes one gain solution per scan, and one per field for the whole observation', () => {
+		const perScan = runVariant((r) => {
+			gainStep(r).interval = { mode: 'scan' };
+		});
+		expect(perScan.status, perScan.stderr).toBe(0);
+		expect(perScan.report?.gain?.time_s).toHaveLength(1 + 3);
+		const whole = runVariant((r) => {
+			gainStep(r).interval = { mode: 'observation' };
+		});
+		expect(whole.status, whole.stderr).toBe(0);
+		expect(whole.report?.gain?.field).toEqual([SIM_FIELDS.flux, SIM_FIELDS.gain]);
+		// the bootstrap does not depend on how the gains were binned (2 % as in calibrate-run.test.ts)
+		const flux = whole.report?.flux[0]?.derived_jy ?? NaN;
+		expect(Math.abs(flux / 2.345 - 1)).toBeLessThan(0.02);
+	});
+});
+
+describe('gain variants', () => {
+	it('solves phase-only gains with unit amplitude and skips the bootstrap', () => {
+		const v = runVariant((r) => {
+			const g = gainStep(r);
+			g.solve_for = 'phase';
+			g.min_snr = 3;
+		});
+		expect(v.status, v.stderr).toBe(0);
+		const amps = (v.report?.gain?.amplitude ?? []).flat(2).filter((a): a is number => a !== null);
+		expect(amps.length).toBeGreaterThan(0);
+		for (const a of amps) expect(a).toBeCloseTo(1, 9);
+		expect(v.stdout).toContain('flux bootstrap skipped');
+		expect(v.report?.flux[0]?.derived_jy ?? null).toBeNull();
+	});
+
+	it.each(['linear', 'nearest'] as const)('corrects the target with K, B and its calibrator’s gains (%s transfer)', (mode) => {
+		const v = runVariant((r) => {
+			const t = r.targets[0];
+			if (t) t.interpolation = mode;
+		});
+		expect(v.status, v.stderr).toBe(0);
+		// check_apply.py recomputes raw/corrected from solutions.npz with its own interpolation (METHODS.md §6)
+		const check = runPython([join(REPO_ROOT, 'tests', 'program', 'check_apply.py'), bundle, join(dir, `v${String(counter)}`, 'out'), SIM_FIELDS.target, SIM_FIELDS.gain, mode]);
+		expect(check.status, check.stderr).toBe(0);
+		const res = JSON.parse(check.stdout) as { max_rel_diff: number; n: number; n_total: number };
+		expect(res.n).toBeGreaterThan(0.9 * res.n_total);
+		// float32 data and float64 arithmetic: agreement to ~1e-6 relative
+		expect(res.max_rel_diff).toBeLessThan(1e-4);
+	});
+});
+
+describe('partial recipes', () => {
+	it('runs without delay and provisional phase steps', () => {
+		const v = runVariant((r) => {
+			r.steps = r.steps.filter((s) => s.kind !== 'delay' && s.kind !== 'bandpass_prep');
+		});
+		expect(v.status, v.stderr).toBe(0);
+		expect(v.report?.steps.map((s) => s.kind)).toEqual(['bandpass', 'gain', 'flux_bootstrap', 'apply', 'verify']);
+		expect(v.report?.delay).toBeUndefined();
+		expect(v.report?.bandpass).toBeDefined();
+	});
+
+	it('warns about fields the bundle does not have and still runs', () => {
+		const v = runVariant((r) => {
+			gainStep(r).fields.push('Not In This Bundle');
+		});
+		expect(v.status, v.stderr).toBe(0);
+		expect(v.stdout).toContain("warning: field 'Not In This Bundle' is not in this bundle");
+	});
+
+	it('plans a recipe with only the apply step', () => {
+		counter += 1;
+		const program = writeProgram(
+			join(dir, `v${String(counter)}`),
+			createSimRecipe((r) => {
+				r.steps = [{ kind: 'apply', fields: [SIM_FIELDS.target] }];
+			})
+		);
+		const plan = runPython([program, 'plan']);
+		expect(plan.status, plan.stderr).toBe(0);
+		expect(plan.stdout).toContain('1. apply:');
+		expect(plan.stdout).not.toContain('2.');
+	});
+});
