@@ -6,6 +6,9 @@ declare global {
 		interface Locals {
 			user: SessionUser | null;
 		}
+		namespace Superforms {
+			type Message = { kind: 'problem' | 'conflict' | 'saved'; text: string; issues?: { path: string; message: string }[] };
+		}
 		interface Error {
 			message: string;
 			code?: ErrorCode;

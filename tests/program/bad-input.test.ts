@@ -89,6 +89,20 @@ describe('bad bundles', () => {
 	});
 });
 
+describe('recipe and bundle that do not belong together', () => {
+	it('refuses a bundle that has none of the recipe’s fields', () => {
+		const other = writeProgram(
+			join(dir, 'other'),
+			createSimRecipe(undefined, { flux: 'Elsewhere A', gain: 'Elsewhere B', target: 'Elsewhere C' })
+		);
+		const before = sha256File(good);
+		const run = runPython([other, 'run', good, '--out', join(dir, 'o9')]);
+		expect(run.status).toBe(2);
+		expect(run.stderr).toMatch(/^error: none of the recipe's fields \(Elsewhere A, Elsewhere B, Elsewhere C\) is in .* check that the bundle belongs to this recipe/);
+		expect(sha256File(good)).toBe(before);
+	});
+});
+
 describe('output folder', () => {
 	it('refuses a non-empty output folder unless --overwrite is given', () => {
 		const out = join(dir, 'taken');

@@ -22,6 +22,9 @@ export const SIM_FIELDS = {
 	gain2: 'Nursery G2'
 } as const;
 
+/** The names of the simulator's flux calibrator, gain calibrator and target. */
+export type SimFieldNames = { flux: string; gain: string; target: string };
+
 /** Reads the starter template set from disk, keyed by path under templates/. */
 export function readTemplateFiles(): Record<string, string> {
 	const files: Record<string, string> = {};
@@ -34,31 +37,32 @@ export function readTemplateFiles(): Record<string, string> {
 }
 
 /** A recipe for the simulator's fields; `change` edits the parsed input before validation. */
-export function createSimRecipe(change?: (r: RecipeParamsInput) => void): RecipeParams {
+export function createSimRecipe(change?: (r: RecipeParamsInput) => void, names: SimFieldNames = SIM_FIELDS): RecipeParams {
+	const fields = names;
 	const input: RecipeParamsInput = {
 		schema_version: 1,
 		title: 'Simulated "Corrie Flats" test \n# not code',
 		notes: 'Invented data.\u2028 """ {{x}}',
 		spectral_window_id: 0,
 		fields: [
-			{ name: SIM_FIELDS.flux, roles: ['flux_calibrator', 'bandpass_calibrator', 'delay_calibrator'] },
-			{ name: SIM_FIELDS.gain, roles: ['gain_calibrator'] },
-			{ name: SIM_FIELDS.target, roles: ['target'] }
+			{ name: fields.flux, roles: ['flux_calibrator', 'bandpass_calibrator', 'delay_calibrator'] },
+			{ name: fields.gain, roles: ['gain_calibrator'] },
+			{ name: fields.target, roles: ['target'] }
 		],
-		flux_models: [{ field: SIM_FIELDS.flux, model: { kind: 'standard', standard: '3C286' } }],
-		flux_estimates: [{ field: SIM_FIELDS.gain, flux_jy: 2 }],
-		targets: [{ field: SIM_FIELDS.target, gain_calibrator: SIM_FIELDS.gain, interpolation: 'linear' }],
+		flux_models: [{ field: fields.flux, model: { kind: 'standard', standard: '3C286' } }],
+		flux_estimates: [{ field: fields.gain, flux_jy: 2 }],
+		targets: [{ field: fields.target, gain_calibrator: fields.gain, interpolation: 'linear' }],
 		reference_antenna: { primary: 'A01', fallbacks: ['A03', 'A04'] },
 		clean_channels: [{ start: 20, end: 44 }],
 		excluded_channels: [{ start: 30, end: 31 }],
 		steps: [
-			{ kind: 'delay', fields: [SIM_FIELDS.flux], interval: { mode: 'scan' }, min_snr: 5, search_window_ns: 50 },
-			{ kind: 'bandpass_prep', fields: [SIM_FIELDS.flux], interval: { mode: 'scan' }, solve_for: 'phase', min_snr: 3 },
-			{ kind: 'bandpass', fields: [SIM_FIELDS.flux], interval: { mode: 'scan' }, min_snr: 3 },
-			{ kind: 'gain', fields: [SIM_FIELDS.flux, SIM_FIELDS.gain], interval: { mode: 'integration' }, solve_for: 'amplitude_and_phase', min_snr: 5 },
-			{ kind: 'flux_bootstrap', fields: [SIM_FIELDS.gain] },
-			{ kind: 'apply', fields: [SIM_FIELDS.flux, SIM_FIELDS.gain, SIM_FIELDS.target] },
-			{ kind: 'verify', fields: [SIM_FIELDS.flux, SIM_FIELDS.gain], max_amplitude_scatter_pct: 5, max_phase_rms_deg: 5 }
+			{ kind: 'delay', fields: [fields.flux], interval: { mode: 'scan' }, min_snr: 5, search_window_ns: 50 },
+			{ kind: 'bandpass_prep', fields: [fields.flux], interval: { mode: 'scan' }, solve_for: 'phase', min_snr: 3 },
+			{ kind: 'bandpass', fields: [fields.flux], interval: { mode: 'scan' }, min_snr: 3 },
+			{ kind: 'gain', fields: [fields.flux, fields.gain], interval: { mode: 'integration' }, solve_for: 'amplitude_and_phase', min_snr: 5 },
+			{ kind: 'flux_bootstrap', fields: [fields.gain] },
+			{ kind: 'apply', fields: [fields.flux, fields.gain, fields.target] },
+			{ kind: 'verify', fields: [fields.flux, fields.gain], max_amplitude_scatter_pct: 5, max_phase_rms_deg: 5 }
 		]
 	};
 	change?.(input);

@@ -141,3 +141,65 @@ describe('partial recipes', () => {
 		expect(plan.stdout).not.toContain('2.');
 	});
 });
+
+describe('hostile names end to end', () => {
+	it('runs with field names full of quotes, newlines, NUL, separators and a lone surrogate, keeping them as data', () => {
+		const hostileBundle = join(dir, 'hostile.npz');
+		const truth = simulateBundle(hostileBundle, join(dir, 'hostile.json'), [...SIM, '--hostile-names']) as { fields: { flux: string; gain: string; target: string } };
+		const names = truth.fields;
+		expect(names.gain).toContain('\u2028');
+		const sub = join(dir, 'hostile');
+		const program = writeProgram(sub, createSimRecipe(undefined, names));
+		const plan = runPython([program, 'plan']);
+		expect(plan.status, plan.stderr).toBe(0);
+		const run = runPython([program, 'run', hostileBundle, '--out', join(sub, 'out')]);
+		expect(run.status, run.stderr).toBe(0);
+		for (const output of [plan.stdout, run.stdout]) {
+			// no name's code ran (it would have printed "pwned" on a line of its own) and no name broke a line
+			expect(output.split('\n')).not.toContain('pwned');
+			expect(output.split('\n').some((line) => line.startsWith('__import__'))).toBe(false);
+			expect(output).not.toContain('\u2028');
+		}
+		const report = JSON.parse(readFileSync(join(sub, 'out', 'report.json'), 'utf8')) as Report & { diagnostics: Record<string, unknown> };
+		expect(report.flux[0]?.field).toBe(names.gain);
+		expect(Object.keys(report.diagnostics).sort()).toEqual([names.flux, names.gain, names.target].sort());
+		expect(Math.abs((report.flux[0]?.derived_jy ?? NaN) / 2.345 - 1)).toBeLessThan(0.02);
+		const summary = runPython([program, 'summarize', hostileBundle]);
+		expect(summary.status, summary.stderr).toBe(0);
+		const parsed = JSON.parse(summary.stdout) as { fields: { name: string }[]; array: { name: string; antennas: { name: string }[] } };
+		expect(parsed.fields.map((f) => f.name)).toEqual([names.flux, names.gain, names.target]);
+		// bundle-only names may hold a lone surrogate; the JSON escapes it and it comes back intact
+		expect(parsed.array.name).toContain('\ud800');
+		expect(parsed.array.antennas.at(-1)?.name).toBe('A08 \ud800\n\u202e');
+	});
+});
+
+describe('wide windows', () => {
+	it('averages a bandpass of more than 1024 channels into 1024 bins for the report', () => {
+		const wide = join(dir, 'wide.npz');
+		simulateBundle(wide, join(dir, 'wide.json'), ['--n-ant', '6', '--n-chan', '2048', '--sigma', '0.1', '--schedule', 'flux:4,gain:2,target:2,gain:2', '--no-truth-bandpass']);
+		const sub = join(dir, 'wide');
+		const program = writeProgram(
+			sub,
+			createSimRecipe((r) => {
+				r.clean_channels = [{ start: 900, end: 1100 }];
+				r.excluded_channels = [{ start: 1000, end: 1003 }];
+			})
+		);
+		const run = runPython([program, 'run', wide, '--out', join(sub, 'out')]);
+		expect(run.status, run.stderr).toBe(0);
+		const report = JSON.parse(readFileSync(join(sub, 'out', 'report.json'), 'utf8')) as {
+			bandpass: { chan_freq_hz: number[]; amplitude: (number | null)[][][]; flag: boolean[][][] };
+		};
+		const freq = report.bandpass.chan_freq_hz;
+		expect(freq).toHaveLength(1024);
+		// simulator input: 2048 channels of 500 MHz / 2048 from 1.0 GHz; bin k holds channels 2k and 2k+1
+		const width = 500e6 / 2048;
+		expect(freq[0]).toBeCloseTo(1e9 + 0.5 * width, 3);
+		expect(freq[1023]).toBeCloseTo(1e9 + 2046.5 * width, 3);
+		expect(report.bandpass.amplitude[0]).toHaveLength(1024);
+		// the bins of excluded channels 1000-1003 (bins 500 and 501) are flagged
+		expect(report.bandpass.flag[1]?.[500]).toEqual([true, true]);
+		expect(report.bandpass.flag[1]?.[502]).toEqual([false, false]);
+	});
+});

@@ -30,6 +30,15 @@ FIELD_INTENTS = {
     "target": "target",
     "gain2": "gain_calibrator",
 }
+# hostile field names (quotes, newlines, NUL, line separators, a lone surrogate, bidi controls,
+# template and format syntax) for the end-to-end test that user text stays data. Recipes refuse
+# lone surrogates, so only bundle-only names (the array's, the last antenna's) carry one.
+HOSTILE_FIELD_NAMES = {
+    "flux": 'flux"""\n__import__("os").system("echo pwned")\n#',
+    "gain": "gain '''\\ \u2028\u2029\r\x00 {{py x}}",
+    "target": "target \u202e\u2066 {0} %s \U0001F600 \" '",
+    "gain2": "gain2 {{{p.title}}}",
+}
 # positions: 3C286 (from memory, METHODS.md 10); the others are invented
 FIELD_RADEC_DEG = {"flux": (202.784534, 30.509155), "gain": (198.0, 27.5), "target": (200.5, 28.2), "gain2": (204.0, 31.0)}
 # invented target: point sources (l, m in radians, flux density in Jy)
@@ -75,11 +84,14 @@ def parse_schedule(text, default_n_int):
 
 def simulate(opts):
     rng = np.random.default_rng(opts.seed)
+    field_names = HOSTILE_FIELD_NAMES if opts.hostile_names else FIELD_NAMES
     n_ant, n_chan, n_corr = opts.n_ant, opts.n_chan, 2
     width = opts.bandwidth / n_chan
     freq = opts.first_freq + width * np.arange(n_chan)
     ref_freq = 0.5 * (freq[0] + freq[-1])
     names = ["A%02d" % (i + 1) for i in range(n_ant)]
+    if opts.hostile_names:
+        names[-1] = names[-1] + " \ud800\n\u202e"
     pos = np.stack([rng.uniform(-opts.extent, opts.extent, n_ant), rng.uniform(-opts.extent, opts.extent, n_ant), rng.uniform(-3, 3, n_ant)], axis=1)
     latitude = math.radians(-30.7)
     schedule = parse_schedule(opts.schedule, opts.n_int)
@@ -217,10 +229,10 @@ def simulate(opts):
         "antenna_name": np.array(names),
         "antenna_position": pos,
         "antenna_diameter": np.full(n_ant, 13.5),
-        "field_name": np.array([FIELD_NAMES[r] for r in roles]),
+        "field_name": np.array([field_names[r] for r in roles]),
         "field_ra": ra,
         "field_dec": dec,
-        "array_name": np.array("Corrie Flats Array (simulated)"),
+        "array_name": np.array("Corrie Flats Array (simulated)" + (" \ud800\u2028" if opts.hostile_names else "")),
         "array_latitude": np.array(latitude),
         "field_intents": np.array([FIELD_INTENTS[r] for r in roles]),
     }
@@ -241,11 +253,11 @@ def simulate(opts):
         "amp_drift": opts.amp_drift,
         "gain_amp0": g_amp0.tolist(),
         "target_sources": [{"l": l, "m": m, "flux_jy": s} for l, m, s in TARGET_SOURCES],
-        "fields": {r: FIELD_NAMES[r] for r in roles},
+        "fields": {r: field_names[r] for r in roles},
         "dead_antenna": names[dead] if dead >= 0 else None,
         "ref_outage_scan": outage_scan if outage_scan > 0 else None,
         "rfi_channels": rfi,
-        "scans": [{"scan": k + 1, "role": role, "field": FIELD_NAMES[role], "n_int": n} for k, (role, n) in enumerate(schedule)],
+        "scans": [{"scan": k + 1, "role": role, "field": field_names[role], "n_int": n} for k, (role, n) in enumerate(schedule)],
         "n_ant": n_ant,
         "n_chan": n_chan,
         "n_row": n_row,
@@ -308,6 +320,7 @@ def main():
     b.add_argument("--dead-antenna", type=int, default=-1, help="antenna index flagged throughout (-1: none)")
     b.add_argument("--ref-outage-scan", type=int, default=0, help="scan number in which A01 is flagged (0: none)")
     b.add_argument("--rfi", default="", help="comma list of channels hit by interference (flagged)")
+    b.add_argument("--hostile-names", action="store_true", help="give the fields hostile names (see HOSTILE_FIELD_NAMES)")
     b.add_argument("--shuffle-rows", action="store_true", help="write the rows in a random order")
     b.add_argument("--no-truth-bandpass", dest="truth_bandpass", action="store_false")
     bad = sub.add_parser("bad")

@@ -154,6 +154,26 @@ describe('flux bootstrap', () => {
 	});
 });
 
+describe('program text', () => {
+	it('parses as Python 3.9 and imports only numpy and the standard library', () => {
+		const script = [
+			'import ast, sys',
+			'tree = ast.parse(open(sys.argv[1], encoding="utf-8").read(), feature_version=(3, 9))',
+			'names = set()',
+			'for node in ast.walk(tree):',
+			'    if isinstance(node, ast.Import): names.update(a.name.split(".")[0] for a in node.names)',
+			'    elif isinstance(node, ast.ImportFrom): names.add((node.module or "").split(".")[0])',
+			'print(" ".join(sorted(names)))'
+		].join('\n');
+		const run = runPython(['-c', script, join(dir, 'calibrate.py')]);
+		expect(run.stderr).toBe('');
+		const names = run.stdout.trim().split(' ');
+		const stdlib = new Set(['argparse', 'datetime', 'hashlib', 'json', 'math', 'os', 'sys', 'time', 'zipfile', 'zlib']);
+		for (const name of names) expect(name === 'numpy' || stdlib.has(name), name).toBe(true);
+		expect(names).toContain('numpy');
+	});
+});
+
 describe('parameters block', () => {
 	it('carries hostile user text as data, exactly', () => {
 		// the test recipe's title, notes and a field name hold quotes, newlines, U+2028 and {{ }}

@@ -1,7 +1,7 @@
 import type { Executor } from '../db/client';
 import { getRulePolicy } from '../db/queries/teams';
 import { findObservationBySha, getObservation } from '../db/queries/observations';
-import { getLatestVersionNumber, getRecipe, getRecipeVersion, insertRecipe, insertRecipeVersion, updateDraft } from '../db/queries/recipes';
+import { getLatestVersionNumber, getRecipe, getRecipeVersion, insertRecipe, insertRecipeVersion, setRecipeObservation, updateDraft } from '../db/queries/recipes';
 import { getTemplateVersionById } from '../db/queries/templates';
 import { createDefaultRecipe } from '$lib/calibration/defaults';
 import { createRecipeExport, parseRecipeExport, parseRecipeParamsValue, type RecipeExport, type RecipeParams } from '$lib/calibration/recipe';
@@ -143,4 +143,26 @@ export async function exportVersion(db: Executor, recipeId: string, version: num
 			filename: programFilename(v.params.title, v.version).replace(/\.py$/, '.recipe.json')
 		}
 	};
+}
+
+/**
+ * Points the draft at another of the team's observations and starts its parameters afresh from
+ * that observation's defaults (keeping the title and notes). Same revision check as saveDraft.
+ */
+export async function changeObservation(db: Executor, input: { recipeId: string; observationId: string; baseRevision: number; userId: string | null; now: Date }): Promise<DomainResult<{ revision: number }>> {
+	return db.transaction(async (tx) => {
+		const recipe = await getRecipe(tx, input.recipeId, true);
+		if (!recipe) return fail('not_found', 'No such recipe.');
+		if (recipe.draftRevision !== input.baseRevision) {
+			return fail('conflict', `Someone else saved this recipe after you opened it (you edited revision ${input.baseRevision}, it is now at ${recipe.draftRevision}). Reload to see their changes; your edit was not saved.`);
+		}
+		if (recipe.observationId === input.observationId) return { ok: true, value: { revision: recipe.draftRevision } };
+		const obs = await getObservation(tx, input.observationId);
+		if (!obs || obs.teamId !== recipe.teamId) return fail('not_found', 'No such observation in this team.');
+		const fresh = createDefaultRecipe(obs.summary, { title: recipe.draft.title });
+		const revision = recipe.draftRevision + 1;
+		await setRecipeObservation(tx, recipe.id, obs.id);
+		await updateDraft(tx, recipe.id, { draft: { ...fresh, notes: recipe.draft.notes }, title: fresh.title, revision, userId: input.userId, now: input.now });
+		return { ok: true, value: { revision } };
+	});
 }

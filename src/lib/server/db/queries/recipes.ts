@@ -151,3 +151,7 @@ export async function listRecipes(
 		.offset(q.offset);
 	return { items: rows.map(({ total: _t, ...r }) => r), total: rows[0]?.total ?? 0 };
 }
+
+export async function setRecipeObservation(db: Executor, id: string, observationId: string): Promise<void> {
+	await db.update(recipes).set({ observationId }).where(eq(recipes.id, id));
+}

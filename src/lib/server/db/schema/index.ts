@@ -4,3 +4,7 @@ export * from './mail';
 export * from './observations';
 export * from './templates';
 export * from './recipes';
+export * from './reviews';
+export * from './sharing';
+export * from './notifications';
+export * from './audit';

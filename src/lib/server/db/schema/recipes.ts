@@ -1,4 +1,4 @@
-import { index, integer, jsonb, pgTable, text, timestamp, unique, uuid } from 'drizzle-orm/pg-core';
+import { index, integer, jsonb, pgTable, text, timestamp, unique, uuid, type AnyPgColumn } from 'drizzle-orm/pg-core';
 import { teams } from './teams';
 import { users } from './users';
 import { observations } from './observations';
@@ -22,9 +22,12 @@ export const recipes = pgTable(
 		createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
 		updatedBy: uuid('updated_by').references(() => users.id, { onDelete: 'set null' }),
 		createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
-		updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow()
+		updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+		// Fork lineage (DESIGN.md "Fork"): the recipe and version this one was copied from.
+		forkedFromRecipeId: uuid('forked_from_recipe_id').references((): AnyPgColumn => recipes.id, { onDelete: 'set null' }),
+		forkedFromVersion: integer('forked_from_version')
 	},
-	(t) => [index('recipes_team_idx').on(t.teamId, t.updatedAt)]
+	(t) => [index('recipes_team_idx').on(t.teamId, t.updatedAt), index('recipes_forked_from_idx').on(t.forkedFromRecipeId)]
 );
 
 export const recipeVersions = pgTable(

@@ -1,17 +1,14 @@
 import { error } from '@sveltejs/kit';
 import type { RequestHandler } from './$types';
 import { apiHandler } from '$lib/server/http';
-import { requireCan, requireUser } from '$lib/server/guards';
 import { getDb } from '$lib/server/db/client';
-import { getRecipe, getRecipeVersion } from '$lib/server/db/queries/recipes';
+import { getRecipeVersion } from '$lib/server/db/queries/recipes';
+import { loadRecipeFor } from '$lib/server/services/recipe-access';
 import { programFilename } from '$lib/script/filename';
 
 // A saved version's program, exactly as stored (its SHA-256 in a header for checking).
 export const GET: RequestHandler = apiHandler(async (event) => {
-	requireUser(event);
-	const recipe = await getRecipe(getDb(), event.params.recipeId);
-	if (!recipe) error(404, { message: 'No such recipe.', code: 'not_found' });
-	requireCan(event, 'recipe.view', { teamId: recipe.teamId }, 'recipe.view');
+	const { recipe } = await loadRecipeFor(event, event.params.recipeId, 'recipe.view');
 	const v = await getRecipeVersion(getDb(), recipe.id, Number(event.params.versionNo));
 	if (!v) error(404, { message: `This recipe has no version ${event.params.versionNo}.`, code: 'not_found' });
 	const name = programFilename(v.params.title, v.version);
