@@ -30,7 +30,9 @@ export default defineConfig({
 			HOST: '127.0.0.1',
 			DATABASE_URL: process.env.DATABASE_URL ?? '',
 			MAIL_FAKE_PORT: process.env.MAIL_FAKE_PORT ?? '2535',
-			MAIL_TRANSPORT: 'fake'
+			MAIL_TRANSPORT: 'fake',
+			APP_BASE_URL: `http://127.0.0.1:${port}`,
+			NOTIFY_INTERVAL_MS: '300'
 		}
 	}
 });

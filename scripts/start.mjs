@@ -29,7 +29,7 @@ try {
 	const app = spawn(process.execPath, ['build'], {
 		cwd: projectDir,
 		stdio: 'inherit',
-		env: { ...process.env, DATABASE_URL: url, PORT: String(port), HOST: process.env.HOST ?? '127.0.0.1', ORIGIN: process.env.ORIGIN ?? `http://127.0.0.1:${port}`, MAIL_FAKE_PORT: String(mailPort) }
+		env: { ...process.env, DATABASE_URL: url, PORT: String(port), HOST: process.env.HOST ?? '127.0.0.1', ORIGIN: process.env.ORIGIN ?? `http://127.0.0.1:${port}`, APP_BASE_URL: process.env.APP_BASE_URL ?? `http://127.0.0.1:${port}`, MAIL_FAKE_PORT: String(mailPort) }
 	});
 	const origin = `http://127.0.0.1:${port}`;
 	console.log(`

@@ -9,6 +9,7 @@ import { startFakeSmtp, type FakeSmtp } from '$lib/server/mail/fake-smtp';
 import { getEnv } from '$lib/server/env';
 import { SESSION_COOKIES } from '$lib/server/guards';
 import { ensureStarterTemplates } from '$lib/server/services/templates';
+import { startNotificationWorker } from '$lib/server/mail/worker';
 
 let fakeSmtp: FakeSmtp | null = null;
 
@@ -27,7 +28,10 @@ export const init: ServerInit = async () => {
 	} catch (e) {
 		console.error(`[templates] could not load the starter set yet: ${(e as Error).message}`);
 	}
+	// Notifications are queued in the database by the actions and sent from here, with retries.
+	const stopWorker = startNotificationWorker({ intervalMs: env.NOTIFY_INTERVAL_MS, baseUrl: env.APP_BASE_URL });
 	process.once('sveltekit:shutdown', () => {
+		void stopWorker();
 		void fakeSmtp?.close();
 		void closeDb();
 	});

@@ -12,7 +12,7 @@ import { syncStarterTemplates } from '../../src/lib/server/services/templates';
 import { STARTER_FILES, STARTER_TEMPLATE_NAME } from '../../src/lib/server/templates/starter';
 import { getRecipe, getRecipeVersion } from '../../src/lib/server/db/queries/recipes';
 import { getObservation, listObservations } from '../../src/lib/server/db/queries/observations';
-import { getTeamBySlug } from '../../src/lib/server/db/queries/teams';
+import { getTeamBySlug, setRulePolicy } from '../../src/lib/server/db/queries/teams';
 import { findUserByEmail } from '../../src/lib/server/db/queries/users';
 import { recipes } from '../../src/lib/server/db/schema';
 import { createDemoObservation } from '../../src/lib/calibration/demo-observation';
@@ -185,6 +185,26 @@ describe('forks', () => {
 			expect(theirs.ok && theirs.value.items.map((a) => a.action)).toEqual(['recipe.fork']);
 			const ours = await listAudit(tx, team.id);
 			expect(ours.ok && ours.value.items.map((a) => a.action)).toContain('recipe.forked_by_other_team');
+		});
+	});
+
+	it('refuses a fork whose version has errors under the target team\'s rule policy, storing nothing', async () => {
+		await inRollback(async (tx) => {
+			const { other, people, recipeId, save } = await setUp(tx);
+			const v1 = await save(recipeId, people.ada, 'v1');
+			await shareRecipe(tx, { recipeId, userId: people.lena });
+			const note = v1.findings.find((f) => f.severity === 'note');
+			if (!note) throw new Error('the demo recipe was expected to carry a note finding');
+			await setRulePolicy(tx, other.id, { overrides: { [note.code]: 'error' } });
+			const before = (await tx.select().from(recipes)).length;
+			expect(await listObservations(tx, other.id)).toHaveLength(0);
+			const r = await forkVersion(tx, { sourceRecipeId: recipeId, version: 1, targetTeamId: other.id, userId: people.ines });
+			expect(r.ok ? null : r.error.code).toBe('validation_failed');
+			expect(r.ok ? '' : r.error.message).toMatch(/Under Tidewater Transients's rules this version has 1 error finding/);
+			expect(r.ok ? [] : (r.error.issues ?? []).map((i) => i.message.split(':')[0])).toEqual([note.code]);
+			expect((await tx.select().from(recipes)).length).toBe(before);
+			// The observation copied before the check was rolled back with the rest.
+			expect(await listObservations(tx, other.id)).toHaveLength(0);
 		});
 	});
 

@@ -7,8 +7,11 @@ import { createHash } from 'node:crypto';
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { createSimRecipe, REPO_ROOT, runPython, SIM_FIELDS, simulateBundle, writeProgram } from './program-helpers';
+
+// each test runs python3 on simulated data: allow for a busy 2-core machine
+vi.setConfig({ testTimeout: 60_000 });
 
 type CalStats = {
 	chi2_ratio: number;

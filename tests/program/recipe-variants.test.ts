@@ -5,9 +5,12 @@
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import type { RecipeParamsInput } from '../../src/lib/calibration/recipe';
 import { createSimRecipe, REPO_ROOT, runPython, SIM_FIELDS, simulateBundle, writeProgram } from './program-helpers';
+
+// each test runs python3 on simulated data: allow for a busy 2-core machine
+vi.setConfig({ testTimeout: 60_000 });
 
 type Report = {
 	steps: { kind: string; n_solutions: number; n_failed: number }[];
@@ -201,5 +204,51 @@ describe('wide windows', () => {
 		// the bins of excluded channels 1000-1003 (bins 500 and 501) are flagged
 		expect(report.bandpass.flag[1]?.[500]).toEqual([true, true]);
 		expect(report.bandpass.flag[1]?.[502]).toEqual([false, false]);
+	});
+});
+
+describe('non-finite samples', () => {
+	it('flags NaN and infinite visibilities instead of letting them spread', () => {
+		const nan = join(dir, 'nan.npz');
+		const inject = [
+			'import sys, numpy as np',
+			'a = dict(np.load(sys.argv[1]))',
+			'v = a["vis"].copy()',
+			'v[5, 3, 1] = np.nan; v[100, 7, 0] = np.inf; v[200, 9, 1] = 3e38; v[200, 10, 1] = 3e38',
+			'a["vis"] = v',
+			'np.savez(sys.argv[2], **a)'
+		].join('\n');
+		expect(runPython(['-c', inject, bundle, nan]).status).toBe(0);
+		const sub = join(dir, 'nan');
+		const program = writeProgram(sub, createSimRecipe());
+		const run = runPython([program, 'run', nan, '--out', join(sub, 'out')]);
+		expect(run.status, run.stderr).toBe(0);
+		const probe = [
+			'import json, sys, numpy as np',
+			'a = np.load(sys.argv[1] + "/calibrated.npz")',
+			'order = np.lexsort((a["ant2"], a["ant1"], a["time"]))',
+			'v = a["vis"][order]; f = a["flag"][order]',
+			'print(json.dumps({"finite": bool(np.isfinite(v).all()), "zero_where_flagged": bool(np.all(v[f] == 0)),',
+			' "flagged": [bool(f[5, 3, 1]), bool(f[100, 7, 0])]}))'
+		].join('\n');
+		const res = runPython(['-c', probe, join(sub, 'out')]);
+		expect(res.stderr).toBe('');
+		// the simulator writes rows time-major in baseline order, so sorting restores the row numbers
+		expect(JSON.parse(res.stdout)).toEqual({ finite: true, zero_where_flagged: true, flagged: [true, true] });
+		// on reading, exactly the two non-finite samples are flagged: the huge finite pair, whose
+		// channel sum overflows to infinity, passes the sample-by-sample test
+		const load = [
+			'import importlib.util, json, sys, numpy as np',
+			'spec = importlib.util.spec_from_file_location("prog", sys.argv[1]); prog = importlib.util.module_from_spec(spec); spec.loader.exec_module(prog)',
+			'b = prog.load_bundle(sys.argv[2])',
+			'raw = np.load(sys.argv[2])["flag"]',
+			'print(json.dumps(np.argwhere(b.flag & ~raw).tolist()))'
+		].join('\n');
+		const loaded = runPython(['-c', load, program, nan]);
+		expect(loaded.stderr).toBe('');
+		expect(JSON.parse(loaded.stdout)).toEqual([
+			[5, 3, 1],
+			[100, 7, 0]
+		]);
 	});
 });

@@ -17,6 +17,9 @@ const envSchema = z.object({
 	SMTP_USER: z.string().default(''),
 	SMTP_PASSWORD: z.string().default(''),
 	MAIL_FROM: z.string().default('Phasewright <no-reply@phasewright.localhost>'),
+	// Links in notification e-mails start with this (the address people reach the app at).
+	APP_BASE_URL: z.string().url().default('http://127.0.0.1:5173'),
+	NOTIFY_INTERVAL_MS: z.coerce.number().int().min(100).default(3000),
 });
 
 export type ServerEnv = z.infer<typeof envSchema>;

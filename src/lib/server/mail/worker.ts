@@ -67,7 +67,9 @@ export function startNotificationWorker(opts: {
 	const tick = (): void => {
 		timer = null;
 		if (stopped) return;
-		running = processNotifications(opts.db ?? getDb(), { now: new Date(), send: opts.send ?? sendMail, baseUrl: opts.baseUrl })
+		// Started inside a promise so that even a synchronous failure (bad configuration) is caught.
+		running = Promise.resolve()
+			.then(() => processNotifications(opts.db ?? getDb(), { now: new Date(), send: opts.send ?? sendMail, baseUrl: opts.baseUrl }))
 			.then(
 				() => undefined,
 				(e: unknown) => {

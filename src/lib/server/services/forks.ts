@@ -11,6 +11,7 @@ import { can, type Actor } from '$lib/workflow/permissions';
 import { fail, type DomainResult } from '$lib/workflow/errors';
 import { findCompareTarget, traceLineage, type CompareTarget, type ForkLink, type LineageEntry } from '$lib/workflow/lineage';
 import { displayNameOf, loadActor, recordAudit } from './audit';
+import { inResultTransaction } from '../db/transaction';
 import { queueNotifications } from './notifications';
 import { uploadObservation } from './observations';
 import { renderWithTemplate } from './render';
@@ -43,7 +44,7 @@ export async function forkVersion(
 	input: { sourceRecipeId: string; version: number; targetTeamId: string; userId: string; now?: Date }
 ): Promise<DomainResult<ForkResult>> {
 	const now = input.now ?? new Date();
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const acting = await loadActor(tx, input.userId);
 		if (!acting) return fail('unauthenticated', 'Sign in to fork recipes.');
 		const source = await getRecipe(tx, input.sourceRecipeId);
@@ -103,7 +104,8 @@ export async function forkVersion(
 			kind: 'recipe_forked',
 			recipientIds: leads,
 			excludeIds: [input.userId],
-			linkPath: `/recipes/${fork.id}`,
+			// The source team's own version page: the fork itself may not be visible to them.
+			linkPath: `/recipes/${source.id}/versions/${sourceVersion.version}`,
 			payload: { recipeTitle: source.title, version: sourceVersion.version, teamName: sourceTeamName, actorName: displayNameOf(acting.user), forkTeamName: targetTeam.name },
 			now
 		});

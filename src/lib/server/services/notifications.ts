@@ -13,6 +13,7 @@ import {
 	type NotificationKind
 } from '../db/queries/notifications';
 import { fail, type DomainResult } from '$lib/workflow/errors';
+import { inResultTransaction } from '../db/transaction';
 
 export { NOTIFICATION_KINDS, type NotificationKind };
 
@@ -56,7 +57,7 @@ export async function setNotificationSetting(
 	if (!parsed.success) {
 		return fail('validation_failed', 'The notification setting is not valid.', parsed.error.issues.map((i) => ({ path: i.path.join('.'), message: i.message })));
 	}
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		await upsertNotificationSetting(tx, { userId: input.userId, kind: parsed.data.kind, enabled: parsed.data.enabled, now: input.now ?? new Date() });
 		return { ok: true, value: await getNotificationSettings(tx, input.userId) };
 	});

@@ -1,4 +1,5 @@
 import type { Executor } from '../db/client';
+import { inResultTransaction } from '../db/transaction';
 import { findObservationBySha, insertObservation } from '../db/queries/observations';
 import { OBSERVATION_LIMITS, parseObservation } from '$lib/calibration/observation';
 import { textSha256 } from '$lib/script/sha256';
@@ -31,7 +32,7 @@ export async function uploadObservation(
 		return fail('validation_failed', `${input.filename} is not a valid phasewright.observation v1 summary (${parsed.error.issues.length} problem${parsed.error.issues.length === 1 ? '' : 's'}).`, parsed.error.issues);
 	}
 	const sha256 = textSha256(text);
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const existing = await findObservationBySha(tx, input.teamId, sha256);
 		if (existing) return fail('conflict', `This exact file was uploaded before as "${existing.name}" (id ${existing.id}).`);
 		const summary = parsed.value.summary;

@@ -4,6 +4,7 @@ import { getRecipe, type RecipeRow } from '../db/queries/recipes';
 import { requireCan, requireUser, type GuardEvent } from '../guards';
 import type { SessionUser } from '../db/queries/users';
 import type { Action } from '$lib/workflow/permissions';
+import { getShare } from './sharing';
 
 /**
  * Loads a recipe and checks that the caller may do `action` on it: 401 signed out, 404 when
@@ -13,6 +14,8 @@ export async function loadRecipeFor(event: GuardEvent, recipeId: string, action:
 	requireUser(event);
 	const recipe = await getRecipe(getDb(), recipeId);
 	if (!recipe) error(404, { message: 'No such recipe, or it is not visible to your teams.', code: 'not_found' });
-	const user = requireCan(event, action, { teamId: recipe.teamId }, 'recipe.view');
+	// A shared recipe is visible (read-only, forkable) to every team.
+	const shared = (await getShare(getDb(), recipe.id)) !== null;
+	const user = requireCan(event, action, { teamId: recipe.teamId, shared }, 'recipe.view');
 	return { recipe, user };
 }

@@ -1,4 +1,5 @@
 import type { Executor } from '../db/client';
+import { inResultTransaction } from '../db/transaction';
 import { getRulePolicy } from '../db/queries/teams';
 import { findObservationBySha, getObservation } from '../db/queries/observations';
 import { getLatestVersionNumber, getRecipe, getRecipeVersion, insertRecipe, insertRecipeVersion, setRecipeObservation, updateDraft } from '../db/queries/recipes';
@@ -13,14 +14,18 @@ import { fail, type DomainResult } from '$lib/workflow/errors';
 import { syncStarterTemplates } from './templates';
 import { STARTER_FILES, STARTER_TEMPLATE_NAME } from '../templates/starter';
 import { renderWithTemplate } from './render';
+import { recordAudit } from './audit';
 
 /** Creates a recipe for one of the team's observations, starting from the engine's defaults. */
 export async function createRecipe(db: Executor, input: { teamId: string; observationId: string; title?: string; userId: string | null }): Promise<DomainResult<{ id: string }>> {
-	const obs = await getObservation(db, input.observationId);
-	if (!obs || obs.teamId !== input.teamId) return fail('not_found', 'No such observation in this team.');
-	const draft = createDefaultRecipe(obs.summary, input.title ? { title: input.title } : {});
-	const row = await insertRecipe(db, { teamId: input.teamId, title: draft.title, observationId: obs.id, draft, userId: input.userId });
-	return { ok: true, value: row };
+	return inResultTransaction(db, async (tx) => {
+		const obs = await getObservation(tx, input.observationId);
+		if (!obs || obs.teamId !== input.teamId) return fail('not_found', 'No such observation in this team.');
+		const draft = createDefaultRecipe(obs.summary, input.title ? { title: input.title } : {});
+		const row = await insertRecipe(tx, { teamId: input.teamId, title: draft.title, observationId: obs.id, draft, userId: input.userId });
+		await recordAudit(tx, { teamId: input.teamId, actorId: input.userId, action: 'recipe.create', subjectType: 'recipe', subjectId: row.id, details: { title: draft.title, observation: obs.name } });
+		return { ok: true, value: row };
+	});
 }
 
 export type SavedVersion = { version: number; programSha256: string; paramsSha256: string; findings: Finding[]; template: { name: string; version: number } };
@@ -34,7 +39,7 @@ export async function saveVersion(
 	db: Executor,
 	input: { recipeId: string; userId: string | null; message: string; params?: unknown; baseRevision?: number; now: Date }
 ): Promise<DomainResult<SavedVersion>> {
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		// Inside the transaction, so the pinned template version is one this transaction can see.
 		const { version: template } = await syncStarterTemplates(tx, STARTER_TEMPLATE_NAME, STARTER_FILES);
 		const recipe = await getRecipe(tx, input.recipeId, true);
@@ -58,7 +63,7 @@ export async function saveVersion(
 		const rendered = renderWithTemplate({ template, recipe: params, observation, recipeId: recipe.id, recipeVersion: version });
 		if (!rendered.ok) return rendered;
 		const pSha = paramsSha256(params);
-		await insertRecipeVersion(tx, {
+		const saved = await insertRecipeVersion(tx, {
 			recipeId: recipe.id,
 			version,
 			params,
@@ -71,6 +76,7 @@ export async function saveVersion(
 			authorId: input.userId
 		});
 		await updateDraft(tx, recipe.id, { draft: params, title: params.title, revision: recipe.draftRevision + 1, userId: input.userId, now: input.now });
+		await recordAudit(tx, { teamId: recipe.teamId, actorId: input.userId, action: 'version.save', subjectType: 'recipe_version', subjectId: saved.id, details: { recipe_id: recipe.id, version, message: input.message, template: `${template.templateName}@${template.version}` }, now: input.now });
 		return { ok: true, value: { version, programSha256: rendered.value.sha256, paramsSha256: pSha, findings, template: { name: template.templateName, version: template.version } } };
 	});
 }
@@ -91,7 +97,7 @@ export async function rerenderVersion(db: Executor, v: { recipeId: string; versi
 export async function saveDraft(db: Executor, input: { recipeId: string; baseRevision: number; params: unknown; userId: string | null; now: Date }): Promise<DomainResult<{ revision: number }>> {
 	const parsed = parseRecipeParamsValue(input.params);
 	if (!parsed.ok) return fail('validation_failed', 'The draft does not fit the recipe format.', parsed.error.issues);
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const recipe = await getRecipe(tx, input.recipeId, true);
 		if (!recipe) return fail('not_found', 'No such recipe.');
 		if (recipe.draftRevision !== input.baseRevision) {
@@ -112,7 +118,7 @@ export async function importRecipe(db: Executor, input: { teamId: string; text: 
 	const parsed = parseRecipeExport(input.text);
 	if (!parsed.ok) return fail('validation_failed', `${input.filename} is not a phasewright.recipe v1 export.`, parsed.error.issues);
 	const exp = parsed.value;
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const bytes = new TextEncoder().encode(`${JSON.stringify(exp.observation, null, 2)}\n`);
 		const uploaded = await uploadObservation(tx, { teamId: input.teamId, bytes, filename: `${input.filename} (embedded observation)`, userId: input.userId });
 		let observationId: string;
@@ -123,6 +129,7 @@ export async function importRecipe(db: Executor, input: { teamId: string; text: 
 			observationId = existing.id;
 		}
 		const row = await insertRecipe(tx, { teamId: input.teamId, title: exp.recipe.title, observationId, draft: exp.recipe, userId: input.userId });
+		await recordAudit(tx, { teamId: input.teamId, actorId: input.userId, action: 'recipe.import', subjectType: 'recipe', subjectId: row.id, details: { title: exp.recipe.title, file: input.filename } });
 		return { ok: true, value: row };
 	});
 }
@@ -150,7 +157,7 @@ export async function exportVersion(db: Executor, recipeId: string, version: num
  * that observation's defaults (keeping the title and notes). Same revision check as saveDraft.
  */
 export async function changeObservation(db: Executor, input: { recipeId: string; observationId: string; baseRevision: number; userId: string | null; now: Date }): Promise<DomainResult<{ revision: number }>> {
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const recipe = await getRecipe(tx, input.recipeId, true);
 		if (!recipe) return fail('not_found', 'No such recipe.');
 		if (recipe.draftRevision !== input.baseRevision) {

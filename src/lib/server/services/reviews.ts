@@ -20,6 +20,7 @@ import { can } from '$lib/workflow/permissions';
 import { fail, type DomainResult } from '$lib/workflow/errors';
 import { listAllowedActions, transition, type ReviewAction, type ReviewState } from '$lib/workflow/review-state';
 import { displayNameOf, loadActor, recordAudit } from './audit';
+import { inResultTransaction } from '../db/transaction';
 import { queueNotifications } from './notifications';
 
 export type ReviewDecision = 'approve' | 'request_changes';
@@ -49,7 +50,7 @@ async function applyReviewAction(
 	const note = checkNote(input.note);
 	if (!note.ok) return note;
 	const now = input.now ?? new Date();
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const acting = await loadActor(tx, input.userId);
 		if (!acting) return fail('unauthenticated', 'Sign in to take part in reviews.');
 		const subject = await getReviewSubject(tx, input.versionId, true);
@@ -128,7 +129,7 @@ export async function addComment(
 	}
 	const line = input.programLine ?? null;
 	const now = input.now ?? new Date();
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const acting = await loadActor(tx, input.userId);
 		if (!acting) return fail('unauthenticated', 'Sign in to comment.');
 		const subject = await getReviewSubject(tx, input.versionId);

@@ -8,6 +8,7 @@ import { getFreqSpanHz } from '$lib/calibration/spectral-window';
 import { can } from '$lib/workflow/permissions';
 import { fail, type DomainResult } from '$lib/workflow/errors';
 import { loadActor, recordAudit } from './audit';
+import { inResultTransaction } from '../db/transaction';
 
 /** Lowest and highest channel-centre frequencies over all spectral windows, Hz. */
 export function computeFreqCoverageHz(summary: ObservationSummary): { min: number; max: number } | null {
@@ -24,7 +25,7 @@ export function computeFreqCoverageHz(summary: ObservationSummary): { min: numbe
 /** A lead shares a recipe (with at least one saved version) with all teams. */
 export async function shareRecipe(db: Executor, input: { recipeId: string; userId: string; now?: Date }): Promise<DomainResult<RecipeShare>> {
 	const now = input.now ?? new Date();
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const acting = await loadActor(tx, input.userId);
 		if (!acting) return fail('unauthenticated', 'Sign in to share recipes.');
 		const recipe = await getRecipe(tx, input.recipeId, true);
@@ -53,7 +54,7 @@ export async function shareRecipe(db: Executor, input: { recipeId: string; userI
 /** A lead withdraws a shared recipe; forks made from it stay in their teams. */
 export async function withdrawShare(db: Executor, input: { recipeId: string; userId: string; now?: Date }): Promise<DomainResult<{ recipeId: string }>> {
 	const now = input.now ?? new Date();
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const acting = await loadActor(tx, input.userId);
 		if (!acting) return fail('unauthenticated', 'Sign in to change sharing.');
 		const recipe = await getRecipe(tx, input.recipeId, true);

@@ -1,4 +1,5 @@
 import type { Executor } from '../db/client';
+import { inResultTransaction } from '../db/transaction';
 import { insertMembership, listMembers, updateMembershipRole, deleteMembership, getTeam, insertTeam, getTeamBySlug, type TeamMember, type Team } from '../db/queries/teams';
 import { upsertUserByEmail, findUserByEmail } from '../db/queries/users';
 import { wouldRemoveLastLead, type TeamRole } from '$lib/workflow/permissions';
@@ -7,7 +8,7 @@ import type { AddMemberInput, CreateTeamInput } from '$lib/workflow/team-schemas
 
 /** Adds a person (created when new) to a team with a role, in one transaction. */
 export async function addMember(db: Executor, teamId: string, input: AddMemberInput): Promise<DomainResult<TeamMember>> {
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		if (!(await getTeam(tx, teamId))) return fail('not_found', 'This team does not exist.');
 		const members = await listMembers(tx, teamId, true);
 		if (members.some((m) => m.email === input.email)) {
@@ -23,7 +24,7 @@ export async function addMember(db: Executor, teamId: string, input: AddMemberIn
 
 /** Changes a member's role; a team never loses its last lead. */
 export async function changeRole(db: Executor, teamId: string, userId: string, role: TeamRole): Promise<DomainResult<TeamMember>> {
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const members = await listMembers(tx, teamId, true);
 		const target = members.find((m) => m.userId === userId);
 		if (!target) return fail('not_found', 'This person is not a member of the team.');
@@ -37,7 +38,7 @@ export async function changeRole(db: Executor, teamId: string, userId: string, r
 
 /** Removes a member; a team never loses its last lead. */
 export async function removeMember(db: Executor, teamId: string, userId: string): Promise<DomainResult<{ userId: string }>> {
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const members = await listMembers(tx, teamId, true);
 		if (!members.some((m) => m.userId === userId)) return fail('not_found', 'This person is not a member of the team.');
 		if (wouldRemoveLastLead(members, userId, null)) {
@@ -50,7 +51,7 @@ export async function removeMember(db: Executor, teamId: string, userId: string)
 
 /** Creates a team with its first lead (site admin). */
 export async function createTeam(db: Executor, input: CreateTeamInput): Promise<DomainResult<Team>> {
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		if (await getTeamBySlug(tx, input.slug)) return fail('conflict', `A team with the short name "${input.slug}" exists already.`);
 		const team = await insertTeam(tx, { slug: input.slug, name: input.name });
 		const lead = (await findUserByEmail(tx, input.leadEmail)) ?? (await upsertUserByEmail(tx, input.leadEmail, null));

@@ -16,6 +16,7 @@ import { TemplateError } from '$lib/script/template-error';
 import { can } from '$lib/workflow/permissions';
 import { fail, type DomainResult } from '$lib/workflow/errors';
 import { loadActor, recordAudit } from './audit';
+import { inResultTransaction } from '../db/transaction';
 import { renderWithTemplate } from './render';
 import { syncStarterTemplates, templateFilesSha256 } from './templates';
 
@@ -110,7 +111,7 @@ function renderDemo(files: Readonly<Record<string, string>>, name: string, versi
 export async function startTeamTemplate(db: Executor, input: { teamId: string; name: string; userId: string; now?: Date }): Promise<DomainResult<TemplateVersion>> {
 	const name = templateNameSchema.safeParse(input.name);
 	if (!name.success) return fail('validation_failed', `The template name is not valid: ${name.error.issues[0]?.message ?? ''}`, [{ path: 'name', message: name.error.issues[0]?.message ?? 'invalid' }]);
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const acting = await loadActor(tx, input.userId);
 		if (!acting || !can(acting.actor, 'template.manage', { teamId: input.teamId })) return fail('forbidden', "Only the team's leads can create its script templates.");
 		if (await findTemplate(tx, name.data, input.teamId)) return fail('conflict', `The team already has a template named "${name.data}"; edit it to make a new version.`);
@@ -152,10 +153,12 @@ export async function createTeamTemplateVersion(
 	const pythonCheck = await checkPythonSyntax(demo.value, input.pythonCommand ? { pythonCommand: input.pythonCommand } : {});
 	if (pythonCheck.status === 'failed') {
 		const where = pythonCheck.line !== null ? ` at line ${pythonCheck.line}` : '';
-		return fail('validation_failed', `The demo recipe rendered with this template set is not valid Python${where}: ${pythonCheck.message}. Fix the template text that produces that line.`, [{ path: 'files', message: `python: ${pythonCheck.message}${where}` }]);
+		const text = pythonCheck.line !== null ? demo.value.split('\n')[pythonCheck.line - 1] : undefined;
+		const shown = text !== undefined ? ` (the line reads: ${JSON.stringify(text.trim().slice(0, 120))})` : '';
+		return fail('validation_failed', `The demo recipe rendered with this template set is not valid Python${where}: ${pythonCheck.message}${shown}. Fix the template text that produces that line.`, [{ path: 'files', message: `python: ${pythonCheck.message}${where}` }]);
 	}
 	const sha256 = templateFilesSha256(files);
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const again = await loadActor(tx, input.authorId);
 		if (!again || !can(again.actor, 'template.manage', { teamId: input.teamId })) return fail('forbidden', "Only the team's leads can change its script templates.");
 		const latest = await getLatestTemplateVersion(tx, template.id, true);
@@ -176,7 +179,7 @@ export async function moveRecipeToTemplate(
 	db: Executor,
 	input: { recipeId: string; templateVersionId: string; userId: string; message: string; now?: Date }
 ): Promise<DomainResult<MovedVersion>> {
-	return db.transaction(async (tx) => {
+	return inResultTransaction(db, async (tx) => {
 		const acting = await loadActor(tx, input.userId);
 		if (!acting) return fail('unauthenticated', 'Sign in to change recipes.');
 		const recipe = await getRecipe(tx, input.recipeId, true);

@@ -1,5 +1,6 @@
 import type { Finding } from '$lib/calibration/validate';
 import type { RecipeParams } from '$lib/calibration/recipe';
+import { canonicalJson } from '$lib/script/canonical-json';
 import type { ValidateResponse } from '../../../../../api/v1/validate/contract';
 import type { RenderResponse } from '../../../../../api/v1/render/contract';
 import type { SaveDraftResponse } from '../../../../../api/v1/recipes/[recipeId=uuid]/draft/contract';
@@ -33,12 +34,13 @@ export class WizardLive {
 		this.revision = init.revision;
 		this.findings = init.findings;
 		this.program = init.program;
-		this.#savedJson = JSON.stringify(init.draft);
+		// Canonical JSON: the database hands the draft back with its keys in another order.
+		this.#savedJson = canonicalJson(init.draft);
 	}
 
 	/** Called whenever the edited draft changes. */
 	update(draft: RecipeParams): void {
-		const json = JSON.stringify(draft);
+		const json = canonicalJson(draft);
 		if (json === this.#savedJson) return;
 		clearTimeout(this.#checkTimer);
 		this.#checkTimer = setTimeout(() => void this.#check(draft), 150);
@@ -47,6 +49,12 @@ export class WizardLive {
 			clearTimeout(this.#saveTimer);
 			this.#saveTimer = setTimeout(() => void this.#autosave(draft, json), 1000);
 		}
+	}
+
+	/** Stops a pending autosave: the form is being submitted, which saves the draft itself. */
+	cancelAutosave(): void {
+		clearTimeout(this.#saveTimer);
+		clearTimeout(this.#checkTimer);
 	}
 
 	async #check(draft: RecipeParams): Promise<void> {
