@@ -77,7 +77,7 @@ DELAY_PAD_FACTOR = 8  # FFT length is the next power of two of 8 x channels [2]
 PHASE_JUMP_WARN_DEG = 90.0  # consecutive gains further apart than this are ambiguous to unwrap [6]
 REPORT_MAX_CHANNELS = 1024  # bandpass in the report is averaged to at most this many bins
 DIAGNOSTIC_MAX_POINTS = 5000  # per field in the report
-CHUNK_SAMPLES = 1 << 22  # visibilities handled at once; bounds the memory of every pass
+CHUNK_SAMPLES = 1 << 19  # visibilities handled at once: bounds memory, keeps temporaries cache-sized
 PARALLEL_HANDS = ("XX", "YY", "RR", "LL")
 KNOWN_CORRELATIONS = ("XX", "XY", "YX", "YY", "RR", "RL", "LR", "LL")
 FIELD_ROLE_NAMES = ("flux_calibrator", "bandpass_calibrator", "delay_calibrator", "gain_calibrator", "target")
@@ -91,6 +91,25 @@ def log(message):
     print(message, flush=True)
 
 
+# characters never printed raw from user text: controls, line and paragraph separators,
+# bidirectional controls, zero-width marks and lone surrogates (which UTF-8 cannot encode)
+HIDDEN_CHARS = set(range(0x20)) | set(range(0x7F, 0xA0)) | {0x2028, 0x2029, 0x061C, 0x200B, 0x200C, 0x200D, 0x200E, 0x200F, 0xFEFF} | set(range(0x202A, 0x202F)) | set(range(0x2066, 0x206A))
+
+
+def show(text):
+    """User text (a name, the title) made safe for one output line: hidden characters escaped."""
+    out = []
+    for ch in str(text):
+        code = ord(ch)
+        if ch == "\\":
+            out.append("\\\\")
+        elif code in HIDDEN_CHARS or 0xD800 <= code < 0xE000:
+            out.append("\\x%02x" % code if code < 0x100 else "\\u%04x" % code)
+        else:
+            out.append(ch)
+    return "".join(out)
+
+
 def channel_mask(ranges, n_chan):
     """Boolean mask of the channels inside the inclusive [start, end] ranges (clipped to the window)."""
     mask = np.zeros(n_chan, dtype=bool)
@@ -100,6 +119,25 @@ def channel_mask(ranges, n_chan):
         if lo <= hi:
             mask[lo:hi + 1] = True
     return mask
+
+
+def scale_last(a, factor):
+    """a[..., k] *= factor[..., None, k] for a of shape (rows, channels, k), factor (rows, k).
+
+    One multiply per trailing index: numpy broadcasts a per-row factor along the middle axis slowly.
+    """
+    for k in range(a.shape[-1]):
+        view = a[:, :, k]
+        view *= factor[:, k, None]
+    return a
+
+
+def scale_middle(a, factor):
+    """a[..., k] *= factor for a of shape (rows, channels, k), factor (rows, channels)."""
+    for k in range(a.shape[-1]):
+        view = a[:, :, k]
+        view *= factor
+    return a
 
 
 def fields_with_role(role):
@@ -374,11 +412,22 @@ def load_bundle(path):
     check_bundle_shapes(path, arrays)
     bundle = Bundle(path, arrays)
     # non-finite samples and non-positive weights count as flagged
-    bad = ~np.isfinite(bundle.vis)
-    if bad.any():
-        bundle.flag = bundle.flag | bad
-    if np.any(bundle.weight <= 0):
-        bundle.flag = bundle.flag | (bundle.weight <= 0)[:, None, :]
+    # screen rows by their channel sum (NaN and infinity propagate through it; a matrix product
+    # is fast), then test the samples of the suspicious rows one by one
+    step = max(1, CHUNK_SAMPLES // (bundle.n_chan * bundle.n_corr))
+    ones = np.ones(bundle.n_chan, dtype=np.complex64)
+    with np.errstate(over="ignore", invalid="ignore"):
+        for s in range(0, bundle.n_row, step):
+            block = bundle.vis[s:s + step]
+            total = np.matmul(ones, block)
+            suspect = np.flatnonzero(~np.isfinite(total).all(axis=1))
+            if len(suspect):
+                bad = ~np.isfinite(block[suspect])
+                bundle.flag[s + suspect] |= bad
+    no_weight = bundle.weight <= 0
+    if no_weight.any():
+        for k in range(bundle.n_corr):
+            bundle.flag[no_weight[:, k], :, k] = True
     return bundle
 
 
@@ -396,6 +445,14 @@ class Context:
     def __init__(self, bundle):
         self.b = bundle
         n_chan = bundle.n_chan
+        for label, ranges in (("CLEAN_CHANNELS", CLEAN_CHANNELS), ("EXCLUDED_CHANNELS", EXCLUDED_CHANNELS)):
+            for start, end in ranges:
+                if start >= n_chan or end >= n_chan:
+                    log("warning: %s range [%d, %d] reaches beyond the window's %d channels; the part outside is ignored" % (label, start, end, n_chan))
+        for name, model in FLUX_MODELS.items():
+            lo, hi = model.get("valid_min_hz"), model.get("valid_max_hz")
+            if lo is not None and hi is not None and (bundle.chan_freq.min() < lo or bundle.chan_freq.max() > hi):
+                log("warning: the flux model of %s is valid from %.4g to %.4g Hz; the window reaches outside it" % (show(name), lo, hi))
         self.excluded = channel_mask(EXCLUDED_CHANNELS, n_chan)
         self.usable = ~self.excluded
         clean = channel_mask(CLEAN_CHANNELS, n_chan) & self.usable
@@ -474,6 +531,9 @@ def assign_intervals(b, rows, interval):
     Returns (index per row, table) with table columns field, scan, time centre, start, end.
     """
     mode = interval["mode"] if interval else "scan"
+    if len(rows) == 0:
+        empty = np.zeros(0)
+        return np.zeros(0, dtype=np.int64), {"field": np.zeros(0, dtype=np.int64), "scan": np.zeros(0, dtype=np.int64), "time": empty, "start": empty, "end": empty}
     field = b.field[rows]
     scan = b.scan[rows]
     t = b.time[rows]
@@ -508,7 +568,7 @@ def assign_intervals(b, rows, interval):
 def accumulate(ctx, rows, group, n_group, chans, spec=None, tgain=None, models=None, sum_channels=True):
     """Weighted sums per group of rows, the R-bar reduction of METHODS 3.
 
-    For each row: num += w * conj(P) * conj(M) * V and den += w * |P|^2 * |M|^2, where P is the
+    For each row: num += w * conj(P) * M * V and den += w * |P|^2 * M^2, where P is the
     correction product (spectral gain and time gain of ant1 times the conjugate for ant2),
     M the real model spectrum of the row's field, and w the weight with flagged samples at 0.
     Then num / den is the corrected, model-divided average and den its weight.
@@ -527,35 +587,109 @@ def accumulate(ctx, rows, group, n_group, chans, spec=None, tgain=None, models=N
     group_sorted = group[order]
     tgain_sorted = None if tgain is None else tgain[1][order]
     all_chans = n_ch == b.n_chan
+    par_sel = slice(par[0], par[-1] + 1) if par == list(range(par[0], par[-1] + 1)) else par
+    spec_sel = None if spec is None else np.ascontiguousarray(spec[:, chans, :])
+    model_sel = None if models is None else np.ascontiguousarray(models[:, chans])
     step = max(1, CHUNK_SAMPLES // max(1, n_ch * b.n_corr))
+    if not sum_channels:
+        return accumulate_per_channel(ctx, rows_sorted, group_sorted, tgain_sorted, tgain, num, den, chans, par_sel, spec_sel, model_sel, step)
     for s in range(0, len(rows_sorted), step):
         r = rows_sorted[s:s + step]
         g = group_sorted[s:s + step]
+        # rows sorted by group are usually consecutive in the bundle: read them as a view
+        if r[-1] - r[0] + 1 == len(r) and np.all(np.diff(r) == 1):
+            r = slice(int(r[0]), int(r[-1]) + 1)
         vis = b.vis[r] if all_chans else b.vis[r][:, chans]
         flag = b.flag[r] if all_chans else b.flag[r][:, chans]
-        vis = vis[:, :, par].astype(np.complex128)
-        ok = ~flag[:, :, par]
-        w = ok * b.weight[r][:, None, par].astype(np.float64)
+        vis = vis[:, :, par_sel]
+        w = (~flag[:, :, par_sel]).astype(np.float64)
+        scale_last(w, b.weight[r][:, par_sel].astype(np.float64))
         a1 = b.ant1[r]
         a2 = b.ant2[r]
-        if spec is not None:
-            prod = spec[a1][:, chans] * np.conj(spec[a2][:, chans])
+        m_rows = None
+        if model_sel is not None:
+            m_rows = model_sel[b.field[r]]
+            scale_middle(w, m_rows)
+        if spec_sel is not None:
+            prod = spec_sel[a1]
+            prod *= np.conj(spec_sel[a2])
         else:
             prod = np.ones(vis.shape, dtype=np.complex128)
         if tgain is not None:
             gtab = tgain[0]
             iv = tgain_sorted[s:s + step]
-            prod = prod * (gtab[iv, a1] * np.conj(gtab[iv, a2]))[:, None, :]
-        m = np.ones((len(r), n_ch)) if models is None else models[b.field[r]][:, chans]
-        x = w * np.conj(prod) * m[:, :, None] * vis
-        d = w * (np.abs(prod) ** 2) * (m[:, :, None] ** 2)
+            scale_last(prod, gtab[iv, a1] * np.conj(gtab[iv, a2]))
+        # den = w |P|^2 M^2 and num = w conj(P) M V, with w already multiplied by M
+        d = prod.real ** 2
+        d += prod.imag ** 2
+        d *= w
+        np.conjugate(prod, out=prod)
+        prod *= vis
+        prod *= w
+        x = prod
+        if m_rows is not None:
+            scale_middle(d, m_rows)
         if sum_channels:
-            x = x.sum(axis=1, keepdims=True)
-            d = d.sum(axis=1, keepdims=True)
+            # matrix products sum over the middle axis far faster than a reduction does
+            x = np.matmul(np.ones(x.shape[1], dtype=x.dtype), x)[:, None, :]
+            d = np.matmul(np.ones(d.shape[1]), d)[:, None, :]
         starts = np.flatnonzero(np.r_[True, g[1:] != g[:-1]])
         ug = g[starts]
         num[ug] += np.add.reduceat(x, starts, axis=0)
         den[ug] += np.add.reduceat(d, starts, axis=0)
+    return num, den
+
+
+def accumulate_per_channel(ctx, rows_sorted, group_sorted, tgain_sorted, tgain, num, den, chans, par_sel, spec_sel, model_sel, step):
+    """accumulate() keeping channels apart. A group is one baseline of one field in one interval,
+    so its spectral product and model are common to all its rows: the rows are summed with their
+    weights and time gains only, and the spectral factors are applied once per group afterwards.
+    """
+    b = ctx.b
+    all_chans = len(chans) == b.n_chan
+    n_group = num.shape[0]
+    first_row = np.full(n_group, -1, dtype=np.int64)
+    for s in range(0, len(rows_sorted), step):
+        r = rows_sorted[s:s + step]
+        g = group_sorted[s:s + step]
+        starts = np.flatnonzero(np.r_[True, g[1:] != g[:-1]])
+        ug = g[starts]
+        first_row[ug] = np.where(first_row[ug] < 0, r[starts], first_row[ug])
+        if r[-1] - r[0] + 1 == len(r) and np.all(np.diff(r) == 1):
+            r = slice(int(r[0]), int(r[-1]) + 1)
+        vis = b.vis[r] if all_chans else b.vis[r][:, chans]
+        flag = b.flag[r] if all_chans else b.flag[r][:, chans]
+        ok = ~flag[:, :, par_sel]
+        weight = b.weight[r][:, par_sel].astype(np.float64)
+        if tgain is not None:
+            gtab = tgain[0]
+            iv = tgain_sorted[s:s + step]
+            gp = gtab[iv, b.ant1[r]] * np.conj(gtab[iv, b.ant2[r]])
+            row_num = weight * np.conj(gp)
+            row_den = weight * np.abs(gp) ** 2
+        else:
+            row_num = weight.astype(np.complex128)
+            row_den = weight
+        x = vis[:, :, par_sel].astype(np.complex128)
+        x *= ok
+        scale_last(x, row_num)
+        d = ok.astype(np.float64)
+        scale_last(d, row_den)
+        num[ug] += np.add.reduceat(x, starts, axis=0)
+        den[ug] += np.add.reduceat(d, starts, axis=0)
+    used = np.flatnonzero(first_row >= 0)
+    if len(used) and (spec_sel is not None or model_sel is not None):
+        rows0 = first_row[used]
+        factor = np.ones((len(used), len(chans), b.n_par), dtype=np.complex128)
+        if spec_sel is not None:
+            factor = np.conj(spec_sel[b.ant1[rows0]] * np.conj(spec_sel[b.ant2[rows0]]))
+        power = np.abs(factor) ** 2
+        if model_sel is not None:
+            m = model_sel[b.field[rows0]]
+            scale_middle(factor, m)
+            scale_middle(power, m ** 2)
+        num[used] *= factor
+        den[used] *= power
     return num, den
 
 
@@ -613,13 +747,17 @@ def record_fallbacks(ctx, step, times, chosen):
     """
     b = ctx.b
     primary = ctx.reference_order[0]
+    seen = {}
     for i in range(len(times)):
         used = np.unique(chosen[i])
         used = [u for u in used.tolist() if u >= 0 and u != primary]
         for u in used:
             entry = {"step": step, "time_s": float(times[i]), "from": b.antenna_name[primary], "to": b.antenna_name[u]}
             ctx.fallbacks.append(entry)
-            log("  reference fallback in %s at t = %.1f s: %s -> %s" % (step, times[i], entry["from"], entry["to"]))
+            seen.setdefault(u, []).append(float(times[i]))
+    # one line per replacement antenna; the report lists every interval
+    for u, when in seen.items():
+        log("  reference fallback in %s: %s -> %s in %d interval(s), t = %.1f to %.1f s" % (step, show(b.antenna_name[primary]), show(b.antenna_name[u]), len(when), min(when), max(when)))
 
 
 def align_fallback_frames(g, flag, chosen, times, fields, primary):
@@ -844,17 +982,16 @@ def phase_per_integration(ctx, rows, spec=None):
     group = (index * b.n_ant + b.ant1[rows]) * b.n_ant + b.ant2[rows]
     num, den = accumulate(ctx, rows, group, n_int * b.n_ant * b.n_ant, ctx.solve_channels, spec=spec, models=field_models(ctx))
     rbar, wbar = to_matrices(num, den, n_int, b.n_ant)
-    g, flag, _, chosen = solve_and_flag(rbar[:, 0], wbar[:, 0], None, True, ctx.reference_order)
+    g = solve_and_flag(rbar[:, 0], wbar[:, 0], None, True, ctx.reference_order)[0]
     return np.transpose(g, (0, 2, 1)), index
 
 
 def run_delay(ctx):
     b = ctx.b
     rows = rows_of_fields(ctx, DELAY_FIELDS)
-    n_sol = 0
     if len(rows) == 0 or b.n_chan < 2:
         ctx.delay_flag[:] = True
-        log("warning: no data for the delay step (fields %s); every delay is flagged" % (DELAY_FIELDS,))
+        log("warning: no data for the delay step (fields %s); every delay is flagged" % ", ".join(show(f) for f in DELAY_FIELDS))
         return {"n_solutions": b.n_ant * b.n_par, "n_failed": b.n_ant * b.n_par}
     gphase, int_index = phase_per_integration(ctx, rows)
     index, table = assign_intervals(b, rows, DELAY_INTERVAL)
@@ -978,6 +1115,8 @@ def run_bandpass(ctx):
     if ctx.prep is not None and len(rows):
         table, row_index = ctx.prep
         tgain = (table, row_index[rows])
+    if len(rows) == 0:
+        log("warning: no data for the bandpass step (fields %s); every bandpass channel is flagged" % ", ".join(show(f) for f in BANDPASS_FIELDS))
     index, itable = assign_intervals(b, rows, BANDPASS_INTERVAL)
     n_int = len(itable["time"])
     group = (index * b.n_ant + b.ant1[rows]) * b.n_ant + b.ant2[rows]
@@ -1110,12 +1249,16 @@ def run_flux_bootstrap(ctx):
     gains = ctx.gains
     n_failed = 0
     n_sol = 0
+    skipped = None
     if gains is None:
-        log("warning: the flux bootstrap needs the gain step; skipped")
-        return {"n_solutions": 0, "n_failed": 0}
-    if GAIN_SOLVE_FOR == "phase":
-        log("warning: gains were solved for phase only, so they carry no amplitude scale; flux bootstrap skipped")
-        return {"n_solutions": 0, "n_failed": 0}
+        skipped = "warning: the flux bootstrap needs the gain step; skipped"
+    elif GAIN_SOLVE_FOR == "phase":
+        skipped = "warning: gains were solved for phase only, so they carry no amplitude scale; flux bootstrap skipped"
+    if skipped:
+        log(skipped)
+        for name in BOOTSTRAP_FIELDS:
+            ctx.flux.append({"field": name, "derived_jy": None, "error_jy": None, "ref_freq_hz": b.ref_freq_hz})
+        return {"n_solutions": len(BOOTSTRAP_FIELDS) * b.n_par, "n_failed": len(BOOTSTRAP_FIELDS) * b.n_par}
     flux_fields = [ctx.field_index[name] for name in FLUX_MODELS if name in ctx.field_index and name in GAIN_FIELDS]
     is_flux = np.isin(gains["field"], flux_fields)
     amp_f = mean_amplitude(gains, is_flux)
@@ -1147,7 +1290,7 @@ def run_flux_bootstrap(ctx):
         for c, (s, _, n) in enumerate(per_hand):
             if n > 0 and math.isfinite(s) and s > 0:
                 gains["g"][mine, :, c] *= math.sqrt(1.0 / s)
-        log("  %s: %.6g Jy +/- %s at %.6g Hz" % (name, s_i, "%.2g" % e_i if e_i is not None else "n/a", b.ref_freq_hz))
+        log("  %s: %.6g Jy +/- %s at %.6g Hz" % (show(name), s_i, "%.2g" % e_i if e_i is not None else "n/a", b.ref_freq_hz))
     return {"n_solutions": n_sol, "n_failed": n_failed}
 
 # --- applying K, B and G (METHODS 6, 13) ---
@@ -1169,7 +1312,7 @@ def gain_source(ctx, name):
     cals = [ctx.field_index[f] for f in fields_with_role("gain_calibrator") if f in ctx.field_index]
     mask = np.isin(gains["field"], cals)
     if mask.any():
-        log("  %s: no gain solutions of its own; using every gain calibrator's" % (name,))
+        log("  %s: no gain solutions of its own; using every gain calibrator's" % (show(name),))
         return mask, "linear"
     log("warning: no gain solutions can correct %r; its data are flagged" % (name,))
     return mask, "linear"
@@ -1217,11 +1360,27 @@ def run_apply(ctx):
         inv_sp = np.where(sp != 0, 1.0 / np.where(sp != 0, sp, 1.0), 0.0).astype(np.complex64)
         good_sp = sp != 0
         spec_power = np.where(good_sp, np.abs(sp) ** 2, 0.0).sum(axis=1) / np.maximum(good_sp.sum(axis=1), 1)
+    sp_bad = ~good_sp
     del sp, good_sp
+    ones_c = np.ones(b.n_chan, dtype=np.complex64)
+    ones_f = np.ones(b.n_chan, dtype=np.float32)
     stats = {}
     step = max(1, CHUNK_SAMPLES // max(1, b.n_chan * b.n_corr))
+    # the order of baselines in the spectral table; chunks hold whole integrations when they can
+    tab_order = np.arange(len(baselines))
+    n_tab = len(baselines)
+    if n_tab and step >= n_tab:
+        offsets = [0]
+        step = (step // n_tab) * n_tab
+    elif n_tab:
+        parts = int(math.ceil(n_tab / step))
+        offsets = [int(round(i * n_tab / parts)) for i in range(parts)]
+        step = n_tab
+    else:
+        offsets = [0]
     jumps = 0
-    for name in APPLY_FIELDS:
+    # each field once, even if the recipe lists it twice (its data must be corrected once)
+    for name in dict.fromkeys(APPLY_FIELDS):
         if name not in ctx.field_index:
             continue
         rows = rows_of_fields(ctx, [name])
@@ -1238,7 +1397,7 @@ def run_apply(ctx):
             gt, n_jump = interpolate_gains(ctx.gains["time"][mask], ctx.gains["g"][mask], ctx.gains["flag"][mask], times, mode)
             jumps += n_jump
         model = verify_model(ctx, name) if name in VERIFY_FIELDS else None
-        inv_model = None if model is None else (1.0 / model).astype(np.float32)
+        inv_model = None if model is None else np.repeat((1.0 / model).astype(np.float32)[:, None], b.n_corr, axis=1)
         n_rows = len(rows)
         st = {
             "rows": rows,
@@ -1248,9 +1407,12 @@ def run_apply(ctx):
             "diff_sq": None if model is None else np.zeros(b.n_corr),
             "diff_n": None if model is None else np.zeros(b.n_corr),
         }
-        for s in range(0, n_rows, step):
-            sel = slice(s, s + step)
-            r = rows[sel]
+        consecutive = rows[-1] - rows[0] + 1 == n_rows
+        edges = [s + o for s in range(0, n_rows, step) for o in offsets if s + o < n_rows] + [n_rows]
+        for s, e in zip(edges[:-1], edges[1:]):
+            sel = slice(s, e)
+            # a field's rows are usually consecutive: then every array below is a view, corrected in place
+            r = slice(int(rows[0]) + sel.start, int(rows[0]) + sel.stop) if consecutive else rows[sel]
             a1 = b.ant1[r]
             a2 = b.ant2[r]
             g1 = gt[tindex[sel], a1]
@@ -1260,32 +1422,83 @@ def run_apply(ctx):
             with np.errstate(invalid="ignore", divide="ignore"):
                 inv_g = np.where(gprod != 0, 1.0 / np.where(gprod != 0, gprod, 1.0), 0.0).astype(np.complex64)
             bi = bl_index[b.baseline[r]]
-            vis = b.vis[r]
-            vis *= inv_sp[bi]
-            vis *= inv_g[:, None, :]
+            # time-major rows repeat the baselines in one order: then the spectral table applies by
+            # broadcasting, without gathering a copy of it for every row
+            m_rows = len(bi)
+            n_rep = m_rows // n_tab if n_tab and m_rows % n_tab == 0 else 0
+            if n_rep and np.array_equal(bi.reshape(n_rep, n_tab), np.broadcast_to(tab_order, (n_rep, n_tab))):
+                layout = "periodic"
+            elif m_rows and bi[-1] - bi[0] + 1 == m_rows and np.array_equal(bi, np.arange(bi[0], bi[0] + m_rows)):
+                layout = "run"
+            else:
+                layout = "gather"
             bad = b.flag[r]
-            bad |= vis == 0
-            vis[bad] = 0.0
-            pos = r if in_place else positions[r]
-            out_vis[pos] = vis
-            out_flag[pos] = bad
-            out_weight[pos] = b.weight[r] * (np.abs(gprod) ** 2 * spec_power[bi]).astype(np.float32)
+            if layout == "periodic":
+                bad.reshape(n_rep, n_tab, b.n_chan, b.n_corr)[...] |= sp_bad[None]
+            elif layout == "run":
+                bad |= sp_bad[bi[0]:bi[0] + m_rows]
+            else:
+                bad |= sp_bad[bi]
+            for k in range(b.n_corr):
+                no_gain = inv_g[:, k] == 0
+                if no_gain.any():
+                    bad[no_gain, :, k] = True
             good = ~bad
-            st["sum"][sel] = vis.sum(axis=1)
-            st["count"][sel] = good.sum(axis=1)
+            vis = b.vis[r]
+            if layout == "periodic":
+                vis.reshape(n_rep, n_tab, b.n_chan, b.n_corr)[...] *= inv_sp[None]
+                scale_last(vis, inv_g)
+            elif layout == "run":
+                vis *= inv_sp[bi[0]:bi[0] + m_rows]
+                scale_last(vis, inv_g)
+            else:
+                factor = np.take(inv_sp, bi, axis=0)
+                scale_last(factor, inv_g)
+                vis *= factor
+                del factor
+            np.multiply(vis, good, out=vis)
+            # sums over channels as matrix products: much faster than a reduction over the middle axis
+            total = np.matmul(ones_c, vis)
+            overflow = np.flatnonzero(~np.isfinite(total).all(axis=1))
+            if len(overflow):
+                # a correction can overflow float32: such samples are flagged like any other bad one
+                block = vis[overflow]
+                lost = ~np.isfinite(block)
+                block[lost] = 0.0
+                vis[overflow] = block
+                bad[overflow] |= lost
+                good[overflow] &= ~lost
+                total[overflow] = np.matmul(ones_c, block)
+            count = np.matmul(ones_f, good.astype(np.float32))
+            st["sum"][sel] = total
+            st["count"][sel] = count
+            # corrected weight w |g_p g_q|^2 (times the mean spectral power); 0 where a row is all flagged
+            weight = b.weight[r] * (np.abs(gprod) ** 2 * spec_power[bi]).astype(np.float32) * (count > 0)
+            if in_place:
+                if not consecutive:
+                    out_vis[r] = vis
+                    out_flag[r] = bad
+                out_weight[r] = weight
+            else:
+                pos = positions[r]
+                out_vis[pos] = vis
+                out_flag[pos] = bad
+                out_weight[pos] = weight
             if inv_model is not None:
-                ratio = vis * inv_model[None, :, None]
-                st["ratio_sum"][sel] = ratio.sum(axis=1)
+                ratio = vis * inv_model[None]
+                st["ratio_sum"][sel] = np.matmul(ones_c, ratio)
                 pair = good[:, 1:] & good[:, :-1]
-                diff = np.where(pair, ratio[:, 1:] - ratio[:, :-1], 0.0)
-                st["diff_sq"] += (np.abs(diff) ** 2).sum(axis=(0, 1))
-                st["diff_n"] += pair.sum(axis=(0, 1))
+                diff = ratio[:, 1:] - ratio[:, :-1]
+                diff *= pair
+                d2 = diff.real ** 2
+                d2 += diff.imag ** 2
+                st["diff_sq"] += np.matmul(np.ones(d2.shape[0] * d2.shape[1], dtype=np.float32), d2.reshape(-1, b.n_corr))
+                st["diff_n"] += np.matmul(ones_f[1:], pair.astype(np.float32)).sum(axis=0)
         stats[name] = st
     if jumps:
         log("  warning: %d step(s) of more than %.0f degrees between consecutive gains; phase unwrapping there is ambiguous" % (jumps, PHASE_JUMP_WARN_DEG))
         ctx.warnings.append("%d gain phase steps above %.0f degrees" % (jumps, PHASE_JUMP_WARN_DEG))
     ctx.apply_stats = stats
-    out_weight[out_flag.all(axis=1)] = 0.0
     ctx.output = {"vis": out_vis, "flag": out_flag, "weight": out_weight, "rows": rows_all, "in_place": in_place}
     return {"n_solutions": 0, "n_failed": 0}
 
@@ -1366,11 +1579,11 @@ def run_verify(ctx):
     stats = getattr(ctx, "apply_stats", {})
     n_checks = 0
     n_failed = 0
-    for name in VERIFY_FIELDS:
+    for name in dict.fromkeys(VERIFY_FIELDS):
         st = stats.get(name)
         if st is None or st["ratio_sum"] is None:
             why = "it was not corrected (add it to the apply step)" if st is None else "it has no flux model or bootstrapped flux density"
-            ctx.checks.append({"code": "verify_unavailable", "field": name, "status": "fail", "value": None, "threshold": None, "unit": "", "message": "cannot verify %s: %s" % (name, why)})
+            ctx.checks.append({"code": "verify_unavailable", "field": name, "status": "fail", "value": None, "threshold": None, "unit": "", "message": "cannot verify %s: %s" % (show(name), why)})
             n_checks += 1
             n_failed += 1
             continue
@@ -1385,7 +1598,7 @@ def run_verify(ctx):
             sigma = sigma_chan / math.sqrt(float(st["count"][ok, c].mean()))
             per_corr.append((b.corr_type[c], verify_metrics(ratio, uvd[ok], sigma)))
         if not per_corr:
-            ctx.checks.append({"code": "verify_unavailable", "field": name, "status": "fail", "value": None, "threshold": None, "unit": "", "message": "cannot verify %s: every corrected sample is flagged" % name})
+            ctx.checks.append({"code": "verify_unavailable", "field": name, "status": "fail", "value": None, "threshold": None, "unit": "", "message": "cannot verify %s: every corrected sample is flagged" % show(name)})
             n_checks += 1
             n_failed += 1
             continue
@@ -1422,7 +1635,7 @@ def run_verify(ctx):
             n_failed += status != "pass"
         for check in ctx.checks:
             if check["field"] == name:
-                log("  %s %s: %s (%s)" % (name, check["code"], check["status"], check["message"]))
+                log("  %s %s: %s (%s)" % (show(name), check["code"], check["status"], show(check["message"])))
     return {"n_solutions": n_checks, "n_failed": int(n_failed)}
 
 # --- outputs: solutions.npz, calibrated.npz, report.json (DESIGN.md "Formats") ---
@@ -1521,7 +1734,7 @@ def write_calibrated(ctx, out_dir, script_sha):
         "field_ra": b.field_ra,
         "field_dec": b.field_dec,
         "array_name": np.array(b.array_name),
-        "calibration_recipe": np.array(json.dumps(build_recipe_record(), sort_keys=True, ensure_ascii=False)),
+        "calibration_recipe": np.array(json.dumps(build_recipe_record(), sort_keys=True, ensure_ascii=True)),
         "calibration_script_sha256": np.array(script_sha),
     }
     if b.array_latitude is not None:
@@ -1557,7 +1770,7 @@ def build_report(ctx, bundle_sha, script_sha, started, finished):
 
 
 def write_report(out_dir, report):
-    text = json.dumps(report, allow_nan=False, ensure_ascii=False, indent=1)
+    text = json.dumps(report, allow_nan=False, ensure_ascii=True, indent=1)
     with open(os.path.join(out_dir, "report.json"), "w", encoding="utf-8") as handle:
         handle.write(text + "\n")
 
@@ -1591,7 +1804,7 @@ def describe_interval(interval):
 
 
 def describe_step(kind):
-    fields = ", ".join(STEP_FIELDS[kind]()) or "(none)"
+    fields = ", ".join(show(f) for f in STEP_FIELDS[kind]()) or "(none)"
     if kind == "delay":
         return "solve one delay (K) per antenna and hand on %s, data averaged over %s, baselines below SNR %g left out, search within +/- %g ns" % (fields, describe_interval(DELAY_INTERVAL), DELAY_MIN_SNR, DELAY_SEARCH_WINDOW_NS)
     if kind == "bandpass_prep":
@@ -1611,23 +1824,23 @@ def describe_step(kind):
 
 
 def command_plan():
-    log("Recipe: %s (id %s, version %s); template %s version %s" % (TITLE, RECIPE_ID, RECIPE_VERSION, TEMPLATE_NAME, TEMPLATE_VERSION))
+    log("Recipe: %s (id %s, version %s); template %s version %s" % (show(TITLE), show(RECIPE_ID), RECIPE_VERSION, show(TEMPLATE_NAME), TEMPLATE_VERSION))
     log("Parameters SHA-256: %s" % PARAMS_SHA256)
-    log("Reference antenna: %s, then %s" % (REFERENCE_ANTENNA, ", ".join(REFERENCE_FALLBACKS) or "(no fallbacks)"))
+    log("Reference antenna: %s, then %s" % (show(REFERENCE_ANTENNA), ", ".join(show(a) for a in REFERENCE_FALLBACKS) or "(no fallbacks)"))
     log("Clean channels: %s; excluded channels: %s" % (CLEAN_CHANNELS or "all usable", EXCLUDED_CHANNELS or "none"))
     for name, roles in FIELD_ROLES.items():
         model = FLUX_MODELS.get(name)
         extra = ""
         if model is not None:
-            extra = "; flux model %s" % (model.get("citation") or model["kind"])
-        log("Field %s: %s%s" % (name, ", ".join(roles), extra))
+            extra = "; flux model %s" % show(model.get("citation") or model["kind"])
+        log("Field %s: %s%s" % (show(name), ", ".join(roles), extra))
     for target in TARGETS:
-        log("Target %s takes gains from %s (%s interpolation)" % (target["field"], target["gain_calibrator"], target["interpolation"]))
+        log("Target %s takes gains from %s (%s interpolation)" % (show(target["field"]), show(target["gain_calibrator"]), target["interpolation"]))
     for i, kind in enumerate(STEPS, start=1):
         if kind in STEP_RUNNERS:
             log("%d. %s: %s" % (i, kind, describe_step(kind)))
         else:
-            log("%d. %s: not known to this template" % (i, kind))
+            log("%d. %s: not known to this template" % (i, show(kind)))
     return 0
 
 
@@ -1691,7 +1904,8 @@ def observation_summary(b):
 
 def command_summarize(path):
     bundle = load_bundle(path)
-    print(json.dumps(to_json_value(observation_summary(bundle)), indent=1, ensure_ascii=False, allow_nan=False))
+    # ASCII JSON: names may hold characters (lone surrogates) that UTF-8 output cannot carry
+    print(json.dumps(to_json_value(observation_summary(bundle)), indent=1, ensure_ascii=True, allow_nan=False))
     return 0
 
 
@@ -1718,6 +1932,8 @@ def command_run(path, out_dir, overwrite):
     bundle = load_bundle(path)
     bundle_sha = sha256_of_file(path)
     log("[load] %.2f s: %d rows, %d channels, %d correlations, %d antennas" % (time.perf_counter() - t0, bundle.n_row, bundle.n_chan, bundle.n_corr, bundle.n_ant))
+    if FIELD_ROLES and not set(FIELD_ROLES) & set(bundle.field_name):
+        raise InputError("none of the recipe's fields (%s) is in %s (it has %s); check that the bundle belongs to this recipe" % (", ".join(show(f) for f in FIELD_ROLES), path, ", ".join(show(f) for f in bundle.field_name)))
     ctx = Context(bundle)
     for kind in STEPS:
         runner = STEP_RUNNERS.get(kind)
@@ -1744,7 +1960,7 @@ def command_run(path, out_dir, overwrite):
 
 
 def main(argv=None):
-    parser = argparse.ArgumentParser(description="Calibration program rendered by Phasewright for: %s" % TITLE)
+    parser = argparse.ArgumentParser(description="Calibration program rendered by Phasewright for: %s" % show(TITLE))
     sub = parser.add_subparsers(dest="command")
     sub.add_parser("plan", help="print the steps and what each will solve")
     summarize = sub.add_parser("summarize", help="print an observation summary (JSON) of a visibility bundle")
