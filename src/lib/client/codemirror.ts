@@ -92,7 +92,8 @@ export function createCodeView(options: CodeViewOptions): CodeViewHandle {
 	let applyingExternal = false;
 
 	const contentLabel = (editable: boolean) =>
-		EditorView.contentAttributes.of({ 'aria-label': options.label, 'aria-readonly': editable ? 'false' : 'true', 'aria-multiline': 'true' });
+		// An explicit tabindex: axe does not count a contenteditable as focusable for scrollable regions.
+		EditorView.contentAttributes.of({ 'aria-label': options.label, 'aria-readonly': editable ? 'false' : 'true', 'aria-multiline': 'true', tabindex: '0' });
 
 	const view = new EditorView({
 		parent: options.parent,
