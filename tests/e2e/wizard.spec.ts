@@ -72,7 +72,7 @@ test('a reducer goes from an uploaded summary to a saved version and a program t
 	await continueTo(page, 'Solve chain');
 	// Make the provisional phase interval two integrations: shorter than the bandpass scan.
 	const prep = page.getByRole('group', { name: /Provisional phase solve/ });
-	await prep.getByLabel('Solution interval').selectOption('seconds');
+	await prep.getByLabel('Solution interval', { exact: true }).selectOption('seconds');
 	await prep.getByLabel('Solution interval in seconds').fill('16');
 	await expect(page.getByTestId('findings-count')).toContainText('1 error');
 	await expect(page.getByText(/provisional phase interval/i).first()).toBeVisible();
@@ -89,7 +89,7 @@ test('a reducer goes from an uploaded summary to a saved version and a program t
 	await expect(page.getByRole('heading', { level: 1, name: 'Solve chain' })).toBeVisible();
 	await hydrated(page);
 	const prep2 = page.getByRole('group', { name: /Provisional phase solve/ });
-	await prep2.getByLabel('Solution interval').selectOption('scan');
+	await prep2.getByLabel('Solution interval', { exact: true }).selectOption('scan');
 	await expect(page.getByTestId('findings-count')).toContainText('no errors');
 	await continueTo(page, 'Review');
 	await expect(page.getByTestId('findings-count')).toContainText('no errors');
