@@ -1,5 +1,8 @@
-import { error } from '@sveltejs/kit';
-import type { PageServerLoad } from './$types';
+import { error, fail } from '@sveltejs/kit';
+import type { Actions, PageServerLoad } from './$types';
+import { z } from 'zod';
+import { addComment, decideReview, getReviewTimeline, listReviewActionsFor, submitForReview, withdrawFromReview } from '$lib/server/services/reviews';
+import type { ReviewAction, ReviewState } from '$lib/workflow/review-state';
 import { getDb } from '$lib/server/db/client';
 import { getRecipeVersion } from '$lib/server/db/queries/recipes';
 import { getTemplateVersionById } from '$lib/server/db/queries/templates';
@@ -17,12 +20,22 @@ export type VersionPageData = {
 	steps: { kind: StepKind }[];
 	program: string;
 	filename: string;
+	review: {
+		state: ReviewState;
+		actions: ReviewAction[];
+		canComment: boolean;
+		timeline: ({ type: 'event'; id: string; at: string; who: string; action: string; from: string; to: string; note: string | null } | { type: 'comment'; id: string; at: string; who: string; body: string; line: number | null; lineText: string | null })[];
+	};
 };
 
 export const load: PageServerLoad = async (event): Promise<VersionPageData> => {
-	const { recipe } = await loadRecipeFor(event, event.params.recipeId, 'recipe.view');
+	const { recipe, user } = await loadRecipeFor(event, event.params.recipeId, 'recipe.view');
 	const v = await getRecipeVersion(getDb(), recipe.id, Number(event.params.versionNo));
 	if (!v) error(404, { message: `This recipe has no version ${event.params.versionNo}.`, code: 'not_found' });
+	const timeline = await getReviewTimeline(getDb(), v.id);
+	if (!timeline.ok) error(404, { message: timeline.error.message, code: 'not_found' });
+	const lines = v.program.split('\n');
+	const who = (name: string | null, email: string | null) => name ?? email ?? 'someone';
 	const template = await getTemplateVersionById(getDb(), v.templateVersionId);
 	return {
 		recipe: { id: recipe.id, title: recipe.title },
@@ -39,6 +52,77 @@ export const load: PageServerLoad = async (event): Promise<VersionPageData> => {
 		findings: v.findings,
 		steps: v.params.steps.map((s) => ({ kind: s.kind })),
 		program: v.program,
-		filename: programFilename(v.params.title, v.version)
+		filename: programFilename(v.params.title, v.version),
+		review: {
+			state: timeline.value.state,
+			actions: await listReviewActionsFor(getDb(), { versionId: v.id, userId: user.id }),
+			canComment: user.memberships.some((m) => m.teamId === recipe.teamId),
+			timeline: timeline.value.entries.map((e) =>
+				e.type === 'event'
+					? { type: 'event' as const, id: e.id, at: e.at.toISOString(), who: who(e.actorName, e.actorEmail), action: e.action, from: e.from, to: e.to, note: e.note }
+					: { type: 'comment' as const, id: e.id, at: e.at.toISOString(), who: who(e.authorName, e.authorEmail), body: e.body, line: e.programLine, lineText: e.programLine ? (lines[e.programLine - 1] ?? null) : null }
+			)
+		}
 	};
+};
+
+const noteSchema = z.object({ note: z.string().trim().max(2000, 'Keep the note under 2000 characters.').default('') });
+const commentSchema = z.object({
+	body: z.string().trim().min(1, 'Write the comment first.').max(5000, 'Keep a comment under 5000 characters.'),
+	line: z
+		.string()
+		.trim()
+		.default('')
+		.refine((v) => v === '' || /^[1-9][0-9]{0,6}$/.test(v), 'The line must be a positive whole number, or empty for the whole version.')
+});
+
+type ActionEvent = Parameters<Actions[string]>[0];
+
+/** The version an action applies to, for the signed-in user (view access is checked). */
+async function versionFor(event: ActionEvent) {
+	const { recipe, user } = await loadRecipeFor(event, event.params.recipeId ?? '', 'recipe.view');
+	const v = await getRecipeVersion(getDb(), recipe.id, Number(event.params.versionNo));
+	if (!v) error(404, { message: 'No such version.', code: 'not_found' });
+	return { v, user };
+}
+
+async function readForm(event: ActionEvent): Promise<Record<string, string>> {
+	const form = await event.request.formData();
+	return Object.fromEntries([...form.entries()].map(([k, x]) => [k, typeof x === 'string' ? x : '']));
+}
+
+function outcome(r: { ok: true } | { ok: false; error: { code: string; message: string } }, done: string) {
+	if (r.ok) return { done };
+	const status = r.error.code === 'forbidden' ? 403 : r.error.code === 'conflict' ? 409 : r.error.code === 'not_found' ? 404 : 400;
+	return fail(status, { problem: r.error.message });
+}
+
+export const actions: Actions = {
+	submit: async (event) => {
+		const { v, user } = await versionFor(event);
+		return outcome(await submitForReview(getDb(), { versionId: v.id, userId: user.id }), 'Submitted for review: the team\'s reviewers have been told.');
+	},
+	withdraw: async (event) => {
+		const { v, user } = await versionFor(event);
+		return outcome(await withdrawFromReview(getDb(), { versionId: v.id, userId: user.id }), 'Withdrawn from review.');
+	},
+	approve: async (event) => {
+		const { v, user } = await versionFor(event);
+		const parsed = noteSchema.safeParse(await readForm(event));
+		if (!parsed.success) return fail(400, { problem: parsed.error.issues.map((i) => i.message).join(' ') });
+		return outcome(await decideReview(getDb(), { versionId: v.id, userId: user.id, decision: 'approve', ...(parsed.data.note ? { note: parsed.data.note } : {}) }), 'Approved.');
+	},
+	requestChanges: async (event) => {
+		const { v, user } = await versionFor(event);
+		const parsed = noteSchema.safeParse(await readForm(event));
+		if (!parsed.success) return fail(400, { problem: parsed.error.issues.map((i) => i.message).join(' ') });
+		return outcome(await decideReview(getDb(), { versionId: v.id, userId: user.id, decision: 'request_changes', ...(parsed.data.note ? { note: parsed.data.note } : {}) }), 'Changes requested: the author has been told.');
+	},
+	comment: async (event) => {
+		const { v, user } = await versionFor(event);
+		const parsed = commentSchema.safeParse(await readForm(event));
+		if (!parsed.success) return fail(400, { problem: parsed.error.issues.map((i) => i.message).join(' ') });
+		const r = await addComment(getDb(), { versionId: v.id, userId: user.id, body: parsed.data.body, ...(parsed.data.line ? { programLine: Number(parsed.data.line) } : {}) });
+		return outcome(r, 'Comment added.');
+	}
 };

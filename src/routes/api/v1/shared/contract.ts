@@ -1,0 +1,1 @@
+export type { SharedRow, SharedListResponse } from '$lib/server/services/shared-list';
