@@ -82,25 +82,9 @@ def parse_schedule(text, default_n_int):
     return scans
 
 
-def simulate(opts):
-    rng = np.random.default_rng(opts.seed)
-    field_names = HOSTILE_FIELD_NAMES if opts.hostile_names else FIELD_NAMES
-    n_ant, n_chan, n_corr = opts.n_ant, opts.n_chan, 2
-    width = opts.bandwidth / n_chan
-    freq = opts.first_freq + width * np.arange(n_chan)
-    ref_freq = 0.5 * (freq[0] + freq[-1])
-    names = ["A%02d" % (i + 1) for i in range(n_ant)]
-    if opts.hostile_names:
-        names[-1] = names[-1] + " \ud800\n\u202e"
-    pos = np.stack([rng.uniform(-opts.extent, opts.extent, n_ant), rng.uniform(-opts.extent, opts.extent, n_ant), rng.uniform(-3, 3, n_ant)], axis=1)
-    latitude = math.radians(-30.7)
-    schedule = parse_schedule(opts.schedule, opts.n_int)
-    roles = []
-    for role, _ in schedule:
-        if role not in roles:
-            roles.append(role)
-    field_index = {role: i for i, role in enumerate(roles)}
-    # antenna terms, per hand
+def draw_antenna_terms(rng, n_ant, n_corr, freq, ref_freq, opts):
+    """Delays, bandpasses and time-variable gains per antenna and hand (draws from rng in a fixed order)."""
+    n_chan = len(freq)
     delay_ns = rng.uniform(-opts.delay_max_ns, opts.delay_max_ns, (n_ant, 1)) + rng.uniform(-0.3, 0.3, (n_ant, n_corr))
     x = (np.arange(n_chan) + 0.5) / n_chan
     roll = 1.0 / np.sqrt(1.0 + ((x - 0.5) / 0.48) ** 20)
@@ -126,6 +110,69 @@ def simulate(opts):
         amp = g_amp0 * (1.0 + opts.amp_drift * np.sin(2 * np.pi * t / 10800.0 + g_psi))
         ph = g_ph0 + g_rate * t + np.radians(6.0) * np.sin(2 * np.pi * t / 7200.0 + g_chi)
         return amp * np.exp(1j * ph)
+
+    return {"spectral": spectral, "delay_ns": delay_ns, "bp_amp": bp_amp, "bp_phase": bp_phase, "g_amp0": g_amp0, "gains_at": gains_at}
+
+
+def model_spectra(kinds, field_of_rows, uvw, freq):
+    """Sky model per row and channel: kinds[f] is ("standard",) for 3C286, ("point", S) or ("sources",)."""
+    model = np.zeros((len(field_of_rows), len(freq)), dtype=np.complex64)
+    for f, kind in enumerate(kinds):
+        sel = field_of_rows == f
+        if not sel.any():
+            continue
+        if kind[0] == "standard":
+            model[sel] = flux_3c286(freq)[None, :]
+        elif kind[0] == "point":
+            model[sel] = kind[1]
+        else:
+            u = uvw[sel]
+            acc = np.zeros((int(sel.sum()), len(freq)), dtype=np.complex128)
+            for l, m, sjy in TARGET_SOURCES:
+                n = math.sqrt(1.0 - l * l - m * m)
+                path = (u[:, 0] * l + u[:, 1] * m + u[:, 2] * (n - 1.0))[:, None] * freq[None, :] / C
+                acc += sjy * np.exp(-2j * np.pi * path)
+            model[sel] = acc
+    return model
+
+
+def corrupt(rng, ant1, ant2, row_tindex, row_field, uvw, gtime, spectral, freq, kinds, sigma):
+    """vis = g_p conj(g_q) M + noise, in chunks (noise drawn chunk by chunk, in row order)."""
+    n_row, n_chan, n_corr = len(ant1), len(freq), spectral.shape[2]
+    vis = np.empty((n_row, n_chan, n_corr), dtype=np.complex64)
+    chunk = max(1, (1 << 22) // (n_chan * n_corr))
+    for s in range(0, n_row, chunk):
+        sl = slice(s, min(s + chunk, n_row))
+        r1, r2 = ant1[sl], ant2[sl]
+        ti = row_tindex[sl]
+        gprod = gtime[ti, r1] * np.conj(gtime[ti, r2])  # (m, n_corr)
+        prod = spectral[r1] * np.conj(spectral[r2]) * gprod[:, None, :].astype(np.complex64)
+        model = model_spectra(kinds, row_field[sl], uvw[sl], freq)
+        noise = rng.standard_normal((len(r1), n_chan, n_corr, 2), dtype=np.float32) * np.float32(sigma)
+        vis[sl] = prod * model[:, :, None] + (noise[..., 0] + 1j * noise[..., 1])
+    return vis
+
+
+def simulate(opts):
+    rng = np.random.default_rng(opts.seed)
+    field_names = HOSTILE_FIELD_NAMES if opts.hostile_names else FIELD_NAMES
+    n_ant, n_chan, n_corr = opts.n_ant, opts.n_chan, 2
+    width = opts.bandwidth / n_chan
+    freq = opts.first_freq + width * np.arange(n_chan)
+    ref_freq = 0.5 * (freq[0] + freq[-1])
+    names = ["A%02d" % (i + 1) for i in range(n_ant)]
+    if opts.hostile_names:
+        names[-1] = names[-1] + " \ud800\n\u202e"
+    pos = np.stack([rng.uniform(-opts.extent, opts.extent, n_ant), rng.uniform(-opts.extent, opts.extent, n_ant), rng.uniform(-3, 3, n_ant)], axis=1)
+    latitude = math.radians(-30.7)
+    schedule = parse_schedule(opts.schedule, opts.n_int)
+    roles = []
+    for role, _ in schedule:
+        if role not in roles:
+            roles.append(role)
+    field_index = {role: i for i, role in enumerate(roles)}
+    terms = draw_antenna_terms(rng, n_ant, n_corr, freq, ref_freq, opts)
+    spectral, delay_ns, bp_amp, bp_phase, g_amp0 = (terms[k] for k in ("spectral", "delay_ns", "bp_amp", "bp_phase", "g_amp0"))
 
     # rows: time-major, every baseline
     a1, a2 = np.triu_indices(n_ant, k=1)
@@ -154,44 +201,14 @@ def simulate(opts):
     for f in range(len(roles)):
         sel = row_field == f
         uvw[sel] = enu_to_uvw(pos[ant2[sel]] - pos[ant1[sel]], latitude, hour_angle[sel], dec[f])
-    gtime = gains_at(times)  # (n_time, n_ant, n_corr)
-    vis = np.empty((n_row, n_chan, n_corr), dtype=np.complex64)
+    gtime = terms["gains_at"](times)  # (n_time, n_ant, n_corr)
     flag = np.zeros((n_row, n_chan, n_corr), dtype=bool)
-    model_flux = flux_3c286(freq)
     dead = opts.dead_antenna
     outage_scan = opts.ref_outage_scan
     rfi = [int(c) for c in opts.rfi.split(",") if c.strip()] if opts.rfi else []
-    chunk = max(1, (1 << 22) // (n_chan * n_corr))
     sigma = opts.sigma
-    for s in range(0, n_row, chunk):
-        sl = slice(s, min(s + chunk, n_row))
-        r1, r2 = ant1[sl], ant2[sl]
-        ti = np.arange(sl.start, sl.stop) // n_bl
-        gprod = gtime[ti, r1] * np.conj(gtime[ti, r2])  # (m, n_corr)
-        prod = spectral[r1] * np.conj(spectral[r2]) * gprod[:, None, :].astype(np.complex64)
-        fr = row_field[sl]
-        model = np.zeros((len(r1), n_chan), dtype=np.complex64)
-        for f, role in enumerate(roles):
-            sel = fr == f
-            if not sel.any():
-                continue
-            if role == "flux":
-                model[sel] = model_flux[None, :]
-            elif role == "gain":
-                model[sel] = opts.gain_flux
-            elif role == "gain2":
-                model[sel] = opts.gain2_flux
-            else:
-                u = uvw[sl][sel]
-                acc = np.zeros((int(sel.sum()), n_chan), dtype=np.complex128)
-                for l, m, sjy in TARGET_SOURCES:
-                    n = math.sqrt(1.0 - l * l - m * m)
-                    path = (u[:, 0] * l + u[:, 1] * m + u[:, 2] * (n - 1.0))[:, None] * freq[None, :] / C
-                    acc += sjy * np.exp(-2j * np.pi * path)
-                model[sel] = acc
-        noise = rng.standard_normal((len(r1), n_chan, n_corr, 2), dtype=np.float32) * np.float32(sigma)
-        v = prod * model[:, :, None] + (noise[..., 0] + 1j * noise[..., 1])
-        vis[sl] = v
+    kinds = [{"flux": ("standard",), "gain": ("point", opts.gain_flux), "gain2": ("point", opts.gain2_flux)}.get(r, ("sources",)) for r in roles]
+    vis = corrupt(rng, ant1, ant2, np.repeat(np.arange(n_time), n_bl), row_field, uvw, gtime, spectral, freq, kinds, sigma)
     if dead >= 0:
         bad = (ant1 == dead) | (ant2 == dead)
         vis[bad] = 1.0e3
@@ -261,6 +278,235 @@ def simulate(opts):
         "n_ant": n_ant,
         "n_chan": n_chan,
         "n_row": n_row,
+    }
+    return arrays, truth
+
+
+CALIBRATOR_INTENTS = ("bandpass_calibrator", "delay_calibrator", "gain_calibrator")
+DEFAULT_LATITUDE_DEG = -30.7  # invented, as in simulate()
+
+
+class SummaryError(Exception):
+    """A summary the simulator cannot use; the message says what and where."""
+
+
+def parse_utc(text, where):
+    import datetime
+
+    try:
+        value = datetime.datetime.fromisoformat(str(text).replace("Z", "+00:00"))
+    except ValueError:
+        raise SummaryError("%s: %r is not an ISO 8601 time such as 2026-03-14T20:00:00Z" % (where, text))
+    if value.tzinfo is None:
+        raise SummaryError("%s: %r has no time zone; write it in UTC with a trailing Z" % (where, text))
+    return value.timestamp()
+
+
+def read_summary(path):
+    """Reads a phasewright.observation v1 summary (JSON)."""
+    try:
+        with open(path, encoding="utf-8") as handle:
+            summary = json.load(handle)
+    except OSError as exc:
+        raise SummaryError("%s: cannot read the summary (%s)" % (path, exc.strerror or exc))
+    except ValueError as exc:
+        raise SummaryError("%s is not valid JSON (%s)" % (path, exc))
+    if not isinstance(summary, dict) or summary.get("format") != "phasewright.observation":
+        raise SummaryError("%s: not a Phasewright observation summary (format must be 'phasewright.observation')" % path)
+    if summary.get("format_version") != 1:
+        raise SummaryError("%s: format_version %r is not supported; the simulator reads version 1" % (path, summary.get("format_version")))
+    for key in ("array", "integration_s", "correlations", "spectral_windows", "fields", "scans"):
+        if key not in summary:
+            raise SummaryError("%s: key '%s' is missing" % (path, key))
+    return summary
+
+
+def select_scans(summary, choice, field_index):
+    """Scans to simulate, in time order: 'all', 'shortest' or a comma list of scan ids.
+
+    'shortest' is the shortest opening run of scans that visits every field observed at all and
+    does not end on a target, so each target has a calibrator scan after it (and, in a usual
+    schedule, one before it).
+    """
+    scans = sorted(summary["scans"], key=lambda s: parse_utc(s["start_utc"], "scan %s start_utc" % s.get("id")))
+    for s in scans:
+        if s["field_id"] not in field_index:
+            raise SummaryError("scan %s: field_id %r is not one of the summary's fields" % (s["id"], s["field_id"]))
+    if choice == "all":
+        return scans
+    if choice == "shortest":
+        wanted = {s["field_id"] for s in scans}
+        seen, chosen = set(), []
+        for s in scans:
+            chosen.append(s)
+            seen.add(s["field_id"])
+            if seen == wanted and not field_index[s["field_id"]][1] == "target":
+                return chosen
+        return chosen
+    ids = []
+    for item in choice.split(","):
+        try:
+            ids.append(int(item))
+        except ValueError:
+            raise SummaryError("--scans: %r is not a scan id; give 'all', 'shortest' or a comma list such as 1,2,3" % item)
+    by_id = {s["id"]: s for s in scans}
+    missing = [i for i in ids if i not in by_id]
+    if missing:
+        raise SummaryError("--scans: scan id(s) %s are not in the summary (it has %s)" % (missing, sorted(by_id)))
+    return [s for s in scans if s["id"] in set(ids)]
+
+
+def simulate_observation(opts):
+    """A bundle laid out like an observation summary: its antennas, window, fields, scans and times."""
+    summary = read_summary(opts.summary)
+    antennas = summary["array"]["antennas"]
+    names = [str(a["name"]) for a in antennas]
+    pos = np.array([[float(a["east_m"]), float(a["north_m"]), float(a.get("up_m", 0.0))] for a in antennas], dtype=np.float64)
+    diameter = np.array([float(a.get("diameter_m", 13.5)) for a in antennas], dtype=np.float64)
+    if opts.antennas:
+        chosen_names = [n.strip() for n in opts.antennas.split(",") if n.strip()]
+        unknown = [n for n in chosen_names if n not in names]
+        if unknown:
+            raise SummaryError("--antennas: %s not in the summary's array (it has %s)" % (", ".join(unknown), ", ".join(names)))
+    else:
+        chosen_names = list(names)
+    with_data = sorted({names.index(n) for n in chosen_names})
+    if len(with_data) < 3:
+        raise SummaryError("--antennas: give at least 3 antennas (gains need 3 or more; METHODS.md 3)")
+    windows = summary["spectral_windows"]
+    spw = next((w for w in windows if w.get("id") == opts.spw_id), None)
+    if spw is None:
+        raise SummaryError("--spw-id %d: the summary has window id(s) %s" % (opts.spw_id, [w.get("id") for w in windows]))
+    n_chan = int(spw["n_chan"])
+    width = float(spw["chan_width_hz"])
+    freq = float(spw["first_freq_hz"]) + width * np.arange(n_chan)
+    ref_freq = 0.5 * (freq[0] + freq[-1])
+    corr = [str(c) for c in summary["correlations"]]
+    if corr != ["XX", "YY"] and corr != ["RR", "LL"]:
+        raise SummaryError("correlations %s: the simulator writes two parallel hands, XX YY or RR LL" % corr)
+    n_corr = 2
+    integration = float(summary["integration_s"])
+    fields = summary["fields"]
+    field_index = {}
+    kinds, intents_text = [], []
+    point_fluxes = [float(x) for x in opts.calibrator_fluxes.split(",")]
+    n_point = 0
+    for i, f in enumerate(fields):
+        intents = list(f.get("intents") or [])
+        if not intents:
+            raise SummaryError("field %r has no intents; the simulator needs them to choose its sky model (add intents to the summary)" % f["name"])
+        if "flux_calibrator" in intents:
+            if str(f["name"]).replace(" ", "").upper() != "3C286":
+                raise SummaryError("field %r is a flux calibrator, but the simulator models only 3C286 (Perley & Butler 2017)" % f["name"])
+            kind = ("standard",)
+        elif any(r in intents for r in CALIBRATOR_INTENTS):
+            kind = ("point", point_fluxes[min(n_point, len(point_fluxes) - 1)])
+            n_point += 1
+        else:
+            kind = ("sources",)
+        kinds.append(kind)
+        intents_text.append(",".join(intents))
+        field_index[f["id"]] = (i, "target" if kind[0] == "sources" else "calibrator")
+    scans = select_scans(summary, opts.scans, field_index)
+    epoch = min(parse_utc(s["start_utc"], "scan %s start_utc" % s["id"]) for s in summary["scans"])
+    times, scan_ids, field_ids = [], [], []
+    for s in scans:
+        start = parse_utc(s["start_utc"], "scan %s start_utc" % s["id"]) - epoch
+        end = parse_utc(s["end_utc"], "scan %s end_utc" % s["id"]) - epoch
+        count = max(1, int(math.floor((end - start) / integration + 1e-9)))
+        if opts.max_integrations_per_scan > 0:
+            count = min(count, opts.max_integrations_per_scan)
+        for i in range(count):
+            times.append(start + (i + 0.5) * integration)
+            scan_ids.append(int(s["id"]))
+            field_ids.append(field_index[s["field_id"]][0])
+    if opts.sigma is not None:
+        sigma = opts.sigma
+    else:
+        sefd = summary["array"].get("sefd_jy")
+        if sefd is None:
+            raise SummaryError("the summary gives no array.sefd_jy, so the noise cannot be derived; give --sigma (Jy)")
+        eff = float(summary["array"].get("correlator_efficiency", 1.0))
+        # radiometer equation, rms of the real part per channel and integration (Wrobel & Walker 1999, via METHODS.md 9)
+        sigma = float(sefd) / (eff * math.sqrt(2.0 * abs(width) * integration))
+    rng = np.random.default_rng(opts.seed)
+    n_ant = len(names)
+    terms = draw_antenna_terms(rng, n_ant, n_corr, freq, ref_freq, opts)
+    live = np.array(with_data)
+    i1, i2 = np.triu_indices(len(live), k=1)
+    a1, a2 = live[i1], live[i2]
+    n_bl = len(a1)
+    times = np.array(times)
+    n_time = len(times)
+    row_tindex = np.repeat(np.arange(n_time), n_bl)
+    row_time = times[row_tindex]
+    row_scan = np.repeat(np.array(scan_ids, dtype=np.int32), n_bl)
+    row_field = np.repeat(np.array(field_ids, dtype=np.int32), n_bl)
+    ant1 = np.tile(a1, n_time).astype(np.int32)
+    ant2 = np.tile(a2, n_time).astype(np.int32)
+    ra = np.radians([float(f["ra_deg"]) for f in fields])
+    dec = np.radians([float(f["dec_deg"]) for f in fields])
+    latitude = math.radians(opts.latitude_deg)
+    lst0 = ra[field_ids[0]]
+    hour_angle = lst0 + SIDEREAL_RATE * row_time - ra[row_field]
+    uvw = np.zeros((len(ant1), 3))
+    for f in range(len(fields)):
+        sel = row_field == f
+        if sel.any():
+            uvw[sel] = enu_to_uvw(pos[ant2[sel]] - pos[ant1[sel]], latitude, hour_angle[sel], dec[f])
+    gtime = terms["gains_at"](times)
+    vis = corrupt(rng, ant1, ant2, row_tindex, row_field, uvw, gtime, terms["spectral"], freq, kinds, sigma)
+    flag = np.zeros(vis.shape, dtype=bool)
+    flagged = [names.index(n) for n in summary.get("flagged_antennas") or [] if n in names]
+    for a in flagged:
+        bad = (ant1 == a) | (ant2 == a)
+        vis[bad] = 1.0e3
+        flag[bad] = True
+    arrays = {
+        "format": np.array("phasewright.visibility-bundle"),
+        "format_version": np.array(1, dtype=np.int16),
+        "vis": vis,
+        "flag": flag,
+        "weight": np.full((len(ant1), n_corr), 1.0 / sigma ** 2, dtype=np.float32),
+        "time": row_time,
+        "time_epoch_utc": np.array(summary["scans"] and min((s["start_utc"] for s in summary["scans"]), key=lambda t: parse_utc(t, "start_utc"))),
+        "integration_s": np.array(integration),
+        "ant1": ant1,
+        "ant2": ant2,
+        "scan": row_scan,
+        "field": row_field,
+        "uvw": uvw,
+        "chan_freq": freq,
+        "corr_type": np.array(corr),
+        "antenna_name": np.array(names),
+        "antenna_position": pos,
+        "antenna_diameter": diameter,
+        "field_name": np.array([str(f["name"]) for f in fields]),
+        "field_ra": ra,
+        "field_dec": dec,
+        "array_name": np.array("%s (simulated)" % summary["array"]["name"]),
+        "array_latitude": np.array(latitude),
+        "field_intents": np.array(intents_text),
+    }
+    truth = {
+        "simulated_from": summary.get("name"),
+        "antenna_names": names,
+        "antennas_with_data": [names[i] for i in with_data],
+        "flagged_antennas": [names[i] for i in flagged],
+        "corr": corr,
+        "delay_ns": terms["delay_ns"].tolist(),
+        "ref_freq_hz": ref_freq,
+        "chan_width_hz": width,
+        "n_chan": n_chan,
+        "sigma_jy": sigma,
+        "amp_drift": opts.amp_drift,
+        "amp_drift_period_s": 10800.0,
+        "gain_amp0": terms["g_amp0"].tolist(),
+        "fields": [{"name": str(f["name"]), "model": k[0], "flux_jy": k[1] if k[0] == "point" else None} for f, k in zip(fields, kinds)],
+        "target_sources": [{"l": l, "m": m, "flux_jy": s} for l, m, s in TARGET_SOURCES],
+        "scans": [{"scan": int(s["id"]), "field": str(fields[field_index[s["field_id"]][0]]["name"]), "n_int": scan_ids.count(int(s["id"])), "time_s": [float(t) for t, k in zip(times, scan_ids) if k == int(s["id"])]} for s in scans],
+        "n_ant": n_ant,
+        "n_row": len(ant1),
     }
     return arrays, truth
 

@@ -123,9 +123,16 @@ export function createCodeView(options: CodeViewOptions): CodeViewHandle {
 		setText(text) {
 			const current = view.state.doc.toString();
 			if (current === text) return;
+			// Replace only the part that differs (common prefix and suffix kept): a re-rendered
+			// program usually changes a few lines, and CodeMirror then re-parses only those.
+			const max = Math.min(current.length, text.length);
+			let start = 0;
+			while (start < max && current.charCodeAt(start) === text.charCodeAt(start)) start++;
+			let end = 0;
+			while (end < max - start && current.charCodeAt(current.length - 1 - end) === text.charCodeAt(text.length - 1 - end)) end++;
 			applyingExternal = true;
 			try {
-				view.dispatch({ changes: { from: 0, to: current.length, insert: text } });
+				view.dispatch({ changes: { from: start, to: current.length - end, insert: text.slice(start, text.length - end) } });
 			} finally {
 				applyingExternal = false;
 			}

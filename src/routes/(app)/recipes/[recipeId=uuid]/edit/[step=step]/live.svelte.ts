@@ -43,7 +43,8 @@ export class WizardLive {
 		const json = canonicalJson(draft);
 		if (json === this.#savedJson) return;
 		clearTimeout(this.#checkTimer);
-		this.#checkTimer = setTimeout(() => void this.#check(draft), 150);
+		// Short: the edit-to-findings budget is 150 ms (bench:web); stale requests are cancelled anyway.
+		this.#checkTimer = setTimeout(() => void this.#check(draft), 40);
 		if (this.saveState !== 'conflict') {
 			this.saveState = 'unsaved';
 			clearTimeout(this.#saveTimer);
