@@ -36,14 +36,14 @@ try {
 		await recreateDatabase(pgPort, 'phasewright_it');
 		const url = databaseUrl(pgPort, 'phasewright_it');
 		migrateAndSeed(url, { seed: false });
-		results.push(['integration', await shStatus(binPath('vitest'), ['run', '--project', 'integration'], { DATABASE_URL: url, MAIL_FAKE_PORT: '2545' })]);
+		results.push(['integration', await shStatus(binPath('vitest'), ['run', '--project', 'integration'], { DATABASE_URL: url, MAIL_FAKE_PORT: process.env.IT_MAIL_PORT ?? '2545' })]);
 	}
 	if (wants('e2e')) {
 		await recreateDatabase(pgPort, 'phasewright_e2e');
 		const url = databaseUrl(pgPort, 'phasewright_e2e');
 		migrateAndSeed(url, { seed: true });
 		sh(viteBin, ['build', '--logLevel', 'warn']);
-		results.push(['end-to-end', await shStatus(binPath('playwright'), ['test'], { DATABASE_URL: url, E2E_PORT: '4183', MAIL_FAKE_PORT: '2535' })]);
+		results.push(['end-to-end', await shStatus(binPath('playwright'), ['test'], { DATABASE_URL: url, E2E_PORT: process.env.E2E_PORT ?? '4183', MAIL_FAKE_PORT: process.env.E2E_MAIL_PORT ?? '2535' })]);
 	}
 } catch (e) {
 	console.error(`\n[test] set-up failed: ${e.message}`);

@@ -6,7 +6,14 @@ follows the published 3C286 standard (Perley & Butler 2017 coefficients, via MET
 numpy only, seeded: the same options give the same bundle.
 
   python3 simulate.py bundle --out B.npz --truth T.json [--preset demo|bench] [options]
+  python3 simulate.py observation --summary S.json --out B.npz [--truth T.json] [--antennas A,B,..]
+                      [--scans all|shortest|ID,..] [--max-integrations-per-scan K] [options]
   python3 simulate.py bad --from B.npz --kind KIND --out BAD.npz
+
+The observation command lays the bundle out like a phasewright.observation v1 summary (antenna
+names and positions, the window's channels, fields, scan numbers and times, integration time,
+correlations) and writes it compressed; it is how the demo observation's simulated bundle is made.
+Antennas left out of --antennas keep their names and positions but get no rows.
 
 Corruption model (METHODS.md 1): vis = g_p conj(g_q) M + noise, g_p = G_p(t) B_p(nu) K_p(nu),
 K_p = exp(-2 pi i (nu - nu_ref) tau_p), nu_ref the window centre.
@@ -408,7 +415,8 @@ def simulate_observation(opts):
         intents_text.append(",".join(intents))
         field_index[f["id"]] = (i, "target" if kind[0] == "sources" else "calibrator")
     scans = select_scans(summary, opts.scans, field_index)
-    epoch = min(parse_utc(s["start_utc"], "scan %s start_utc" % s["id"]) for s in summary["scans"])
+    first = min(summary["scans"], key=lambda s: parse_utc(s["start_utc"], "scan %s start_utc" % s["id"]))
+    epoch = parse_utc(first["start_utc"], "scan %s start_utc" % first["id"])
     times, scan_ids, field_ids = [], [], []
     for s in scans:
         start = parse_utc(s["start_utc"], "scan %s start_utc" % s["id"]) - epoch
@@ -469,7 +477,7 @@ def simulate_observation(opts):
         "flag": flag,
         "weight": np.full((len(ant1), n_corr), 1.0 / sigma ** 2, dtype=np.float32),
         "time": row_time,
-        "time_epoch_utc": np.array(summary["scans"] and min((s["start_utc"] for s in summary["scans"]), key=lambda t: parse_utc(t, "start_utc"))),
+        "time_epoch_utc": np.array(str(first["start_utc"])),
         "integration_s": np.array(integration),
         "ant1": ant1,
         "ant2": ant2,
@@ -569,6 +577,21 @@ def main():
     b.add_argument("--hostile-names", action="store_true", help="give the fields hostile names (see HOSTILE_FIELD_NAMES)")
     b.add_argument("--shuffle-rows", action="store_true", help="write the rows in a random order")
     b.add_argument("--no-truth-bandpass", dest="truth_bandpass", action="store_false")
+    o = sub.add_parser("observation", help="a compressed bundle laid out like an observation summary (antennas, window, fields, scans)")
+    o.add_argument("--summary", required=True, help="phasewright.observation v1 JSON")
+    o.add_argument("--out", required=True)
+    o.add_argument("--truth", help="write the simulation's truth (JSON) here")
+    o.add_argument("--seed", type=int, default=1)
+    o.add_argument("--antennas", default="", help="comma list of antenna names that get data (default: all); the rest keep their names and positions but have no rows")
+    o.add_argument("--scans", default="all", help="'all', 'shortest' (every field, ending on a calibrator) or a comma list of scan ids")
+    o.add_argument("--max-integrations-per-scan", type=int, default=0, help="keep at most this many integrations of each scan (0: all)")
+    o.add_argument("--spw-id", type=int, default=0, help="spectral window to simulate")
+    o.add_argument("--sigma", type=float, default=None, help="noise rms of the real part per channel and integration (Jy); default from the summary's SEFD")
+    o.add_argument("--calibrator-fluxes", default="2.345,1.234", help="flux densities (Jy) of the point-source calibrators other than the flux calibrator, in field order")
+    o.add_argument("--amp-drift", type=float, default=0.003, help="fractional slow gain amplitude drift")
+    o.add_argument("--phase-ripple-deg", type=float, default=4.0, help="largest bandpass phase ripple amplitude")
+    o.add_argument("--delay-max-ns", type=float, default=5.0)
+    o.add_argument("--latitude-deg", type=float, default=DEFAULT_LATITUDE_DEG, help="array latitude (the summary has none)")
     bad = sub.add_parser("bad")
     bad.add_argument("--from", dest="source", required=True)
     bad.add_argument("--kind", required=True)
@@ -582,6 +605,21 @@ def main():
                 setattr(opts, key, value)
     if opts.command == "bad":
         write_bad(opts.source, opts.kind, opts.out)
+        return 0
+    if opts.command == "observation":
+        try:
+            arrays, truth = simulate_observation(opts)
+        except SummaryError as exc:
+            print("simulate.py observation: %s" % exc, file=sys.stderr)
+            return 2
+        except (KeyError, TypeError, ValueError) as exc:
+            print("simulate.py observation: %s does not have the phasewright.observation v1 layout (%s: %s)" % (opts.summary, type(exc).__name__, exc), file=sys.stderr)
+            return 2
+        with open(opts.out, "wb") as handle:
+            np.savez_compressed(handle, **arrays)
+        if opts.truth:
+            with open(opts.truth, "w") as handle:
+                json.dump(truth, handle)
         return 0
     arrays, truth = simulate(opts)
     with open(opts.out, "wb") as handle:
