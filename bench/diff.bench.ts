@@ -9,6 +9,7 @@
 import type { RecipeParams, Step } from '../src/lib/calibration/recipe';
 import { diffParams } from '../src/lib/workflow/diff/param-diff';
 import { diffText } from '../src/lib/workflow/diff/text-diff';
+import { measureMedianMs } from './measure';
 
 const PROGRAM_LINES = 1500;
 
@@ -106,17 +107,6 @@ function renderBenchProgram(r: RecipeParams, seed: number): string {
 	return lines.slice(0, PROGRAM_LINES).join('\n') + '\n';
 }
 
-function measureMedianMs(run: () => void, repeats: number): number {
-	for (let i = 0; i < Math.min(50, repeats); i++) run(); // warm-up
-	const times: number[] = [];
-	for (let i = 0; i < repeats; i++) {
-		const start = performance.now();
-		run();
-		times.push(performance.now() - start);
-	}
-	times.sort((x, y) => x - y);
-	return times[Math.floor(times.length / 2)] ?? NaN;
-}
 
 const before = createBenchRecipe();
 const after = structuredClone(before);

@@ -14,6 +14,7 @@ import { performance } from 'node:perf_hooks';
 import { buildRenderContext } from '../src/lib/script/render-context';
 import { compileTemplateSet, renderProgram } from '../src/lib/script/render';
 import { createSimRecipe, readTemplateFiles, REPO_ROOT, runPython, simulateBundle, writeProgram } from '../tests/program/program-helpers';
+import { median } from './measure';
 
 type Measured = { seconds: number; max_rss_kb: number; status: number; stderr: string; stdout: string };
 
@@ -23,11 +24,6 @@ const runs = Math.max(3, Number(process.env.BENCH_RUNS ?? 3));
 // 200 integrations: flux 20, then gain 10 / target 50 / gain 10 / target 50 / gain 10 / target 40 / gain 10
 const schedule = 'flux:20,gain:10,target:50,gain:10,target:50,gain:10,target:40,gain:10';
 
-function median(values: number[]): number {
-	const sorted = [...values].sort((a, b) => a - b);
-	const mid = Math.floor(sorted.length / 2);
-	return sorted.length % 2 ? (sorted[mid] ?? NaN) : ((sorted[mid - 1] ?? NaN) + (sorted[mid] ?? NaN)) / 2;
-}
 
 function measure(args: string[]): Measured {
 	const run = runPython([join(REPO_ROOT, 'bench', 'program_measure.py'), ...args]);

@@ -7,6 +7,7 @@
 import { createDefaultRecipe } from '../src/lib/calibration/defaults';
 import type { ObservationSummary } from '../src/lib/calibration/observation-schema';
 import { validate } from '../src/lib/calibration/validate';
+import { measureMedianMs } from './measure';
 
 function createRandom(seed: number): () => number {
 	let s = seed >>> 0;
@@ -57,17 +58,6 @@ function createLargeObservation(seed: number): ObservationSummary {
 	};
 }
 
-function measureMedianMs(run: () => void, repeats: number): number {
-	for (let i = 0; i < Math.min(50, repeats); i++) run(); // warm-up
-	const times: number[] = [];
-	for (let i = 0; i < repeats; i++) {
-		const start = performance.now();
-		run();
-		times.push(performance.now() - start);
-	}
-	times.sort((a, b) => a - b);
-	return times[Math.floor(times.length / 2)] ?? NaN;
-}
 
 const observation = createLargeObservation(7);
 const text = JSON.stringify(observation);

@@ -7,6 +7,7 @@ import { randomUUID } from 'node:crypto';
 import { gzipSync } from 'node:zlib';
 import { chromium } from '@playwright/test';
 import pg from 'pg';
+import { median } from './measure';
 // @ts-expect-error plain ESM helpers without types
 import { ensureChromium, migrateAndSeed, projectDir, sh, syncKit, viteBin } from '../scripts/setup.mjs';
 // @ts-expect-error plain ESM helpers without types
@@ -17,11 +18,6 @@ const APP_PORT = 4193;
 const EDITS = 25;
 const base = `http://127.0.0.1:${APP_PORT}`;
 
-const median = (xs: number[]) => {
-	const s = [...xs].sort((a, b) => a - b);
-	const m = Math.floor(s.length / 2);
-	return s.length % 2 ? (s[m] ?? 0) : ((s[m - 1] ?? 0) + (s[m] ?? 0)) / 2;
-};
 
 // In-page code is passed as source text: the TypeScript runner rewrites functions it compiles.
 const EDIT_AND_WAIT = `async function (t) {

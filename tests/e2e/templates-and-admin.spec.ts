@@ -55,6 +55,18 @@ async function versionCount(id: string): Promise<number> {
 	return rows[0]?.n ?? -1;
 }
 
+/**
+ * Posts a form action the way the enhanced page does, as routes.spec.ts does: the answer is
+ * 200 with { type: 'failure' | 'error', status } when the action refuses, so that status is returned.
+ */
+async function postAction(page: Page, url: string, form: Record<string, string>): Promise<{ status: number; text: string }> {
+	const res = await page.request.post(url, { form, maxRedirects: 0, headers: { accept: 'application/json', 'x-sveltekit-action': 'true' } });
+	const text = await res.text();
+	if (res.status() !== 200) return { status: res.status(), text };
+	const body = JSON.parse(text) as { type: string; status?: number };
+	return { status: body.type === 'failure' || body.type === 'error' ? (body.status ?? 500) : 200, text };
+}
+
 function versionRows(page: Page, name: string) {
 	return page.locator(`[data-testid="template-set"][data-template-name="${name}"]`).getByTestId('template-version-row');
 }
@@ -143,11 +155,8 @@ test('members cannot edit a team template and other teams cannot see it', async 
 	// A member of the team may read its template versions, without the edit link.
 	expect((await member.goto(`/templates/${id}/versions/1`))?.status()).toBe(200);
 	await expect(member.getByRole('link', { name: 'New version' })).toHaveCount(0);
-	const posted = await member.request.post(`/templates/${id}/new-version?/saveVersion`, {
-		form: { baseVersion: '1', changelog: 'Not allowed', [`file:${ENTRY}`]: '# nothing' },
-		headers: { origin: baseURL ?? '' }
-	});
-	expect(posted.status()).toBe(403);
+	const posted = await postAction(member, `/templates/${id}/new-version?/saveVersion`, { baseVersion: '1', changelog: 'Not allowed', [`file:${ENTRY}`]: '# nothing' });
+	expect(posted.status).toBe(403);
 	expect(await versionCount(id)).toBe(1);
 
 	for (const persona of ['otherMember', 'otherLead'] as const) {
@@ -184,9 +193,9 @@ test('notification settings are saved, survive a reload, and bad input changes n
 	expect(await settings()).toEqual({ review_requested: true, review_decided: true, comment_added: false, recipe_forked: false });
 
 	// A value no checkbox sends is refused before anything is written.
-	const bad = await page.request.post('/profile?/saveNotifications', { form: { review_requested: 'on', comment_added: 'yes' }, headers: { origin: baseURL ?? '' } });
-	expect(bad.status()).toBe(400);
-	expect(await bad.text()).toContain('comment_added');
+	const bad = await postAction(page, '/profile?/saveNotifications', { review_requested: 'on', comment_added: 'yes' });
+	expect(bad.status).toBe(400);
+	expect(bad.text).toContain('comment_added');
 	expect(await settings()).toEqual({ review_requested: true, review_decided: true, comment_added: false, recipe_forked: false });
 
 	// Back to every kind on, so other tests' e-mails still reach this person.
@@ -219,23 +228,25 @@ test('the site admin sees failed notifications and queues one again; a member ge
 	await expect(entry.locator('td').nth(2)).toHaveText('5');
 
 	// A made-up id is refused with a message; the row stays failed.
-	const bogus = await page.request.post('/admin/notifications?/retry', { form: { id: 'not-an-id' }, headers: { origin: baseURL ?? '' } });
-	expect(bogus.status()).toBe(400);
+	const bogus = await postAction(page, '/admin/notifications?/retry', { id: 'not-an-id' });
+	expect(bogus.status).toBe(400);
+	expect(bogus.text).toContain('Queue again');
 	expect((await query<{ status: string }>('select status::text from notifications where id = $1', [row?.id]))[0]?.status).toBe('failed');
+
+	// A member may neither see the page nor queue the message again.
+	const other = await browser.newContext();
+	await signInAs(other, baseURL ?? '', 'member');
+	const member = await other.newPage();
+	expect((await member.goto('/admin/notifications'))?.status()).toBe(403);
+	expect((await postAction(member, '/admin/notifications?/retry', { id: row?.id ?? '' })).status).toBe(403);
+	expect((await query<{ status: string }>('select status::text from notifications where id = $1', [row?.id]))[0]?.status).toBe('failed');
+	await other.close();
 
 	await entry.getByRole('button', { name: /^Queue again/ }).click();
 	await expect(page.getByRole('status')).toContainText('queued again');
 	await expect(page.getByTestId('failed-notification').filter({ hasText: error })).toHaveCount(0);
 	const after = await query<{ status: string; attempts: number }>('select status::text, attempts from notifications where id = $1', [row?.id]);
 	expect(['pending', 'sent']).toContain(after[0]?.status);
-
-	const other = await browser.newContext();
-	await signInAs(other, baseURL ?? '', 'member');
-	const member = await other.newPage();
-	expect((await member.goto('/admin/notifications'))?.status()).toBe(403);
-	const posted = await member.request.post('/admin/notifications?/retry', { form: { id: row?.id ?? '' }, headers: { origin: baseURL ?? '' } });
-	expect(posted.status()).toBe(403);
-	await other.close();
 });
 
 test('a lead reads the audit log from the team page; members, reviewers and the admin get 403, other teams 404', async ({ page, context, baseURL, browser }) => {

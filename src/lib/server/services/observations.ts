@@ -1,6 +1,6 @@
 import type { Executor } from '../db/client';
 import { inResultTransaction } from '../db/transaction';
-import { findObservationBySha, insertObservation } from '../db/queries/observations';
+import { findObservationBySha, insertObservation, listObservations } from '../db/queries/observations';
 import { OBSERVATION_LIMITS, parseObservation } from '$lib/calibration/observation';
 import { textSha256 } from '$lib/script/sha256';
 import { fail, type DomainResult } from '$lib/workflow/errors';
@@ -47,4 +47,21 @@ export async function uploadObservation(
 		});
 		return { ok: true, value: { id: row.id, name: summary.name, sha256, warnings: parsed.value.warnings } };
 	});
+}
+
+export type ObservationListItem = { id: string; name: string; array: string; antennas: number; fields: number; scans: number; sha256: string; uploadedBy: string | null; createdAt: string };
+
+/** A team's observations as the list page and its API show them, newest first. */
+export async function listObservationItems(db: Executor, teamId: string): Promise<ObservationListItem[]> {
+	return (await listObservations(db, teamId)).map((o) => ({
+		id: o.id,
+		name: o.name,
+		array: o.summary.array.name,
+		antennas: o.summary.array.antennas.length,
+		fields: o.summary.fields.length,
+		scans: o.summary.scans.length,
+		sha256: o.sha256,
+		uploadedBy: o.uploadedByEmail,
+		createdAt: o.createdAt.toISOString()
+	}));
 }

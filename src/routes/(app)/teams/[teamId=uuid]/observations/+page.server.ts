@@ -2,14 +2,13 @@ import { error, fail, redirect } from '@sveltejs/kit';
 import type { Actions, PageServerLoad } from './$types';
 import { getDb } from '$lib/server/db/client';
 import { getTeam } from '$lib/server/db/queries/teams';
-import { listObservations } from '$lib/server/db/queries/observations';
 import { actorOf, requireCan } from '$lib/server/guards';
-import { uploadObservation } from '$lib/server/services/observations';
+import { listObservationItems, uploadObservation, type ObservationListItem } from '$lib/server/services/observations';
 import { can } from '$lib/workflow/permissions';
 
 export type ObservationsPageData = {
 	team: { id: string; name: string };
-	observations: { id: string; name: string; array: string; antennas: number; fields: number; scans: number; uploadedBy: string | null; createdAt: string }[];
+	observations: ObservationListItem[];
 	canUpload: boolean;
 };
 
@@ -18,19 +17,9 @@ export const load: PageServerLoad = async (event): Promise<ObservationsPageData>
 	const user = requireCan(event, 'observation.view', subject, 'team.view');
 	const team = await getTeam(getDb(), event.params.teamId);
 	if (!team) error(404, { message: 'This team does not exist.', code: 'not_found' });
-	const rows = await listObservations(getDb(), team.id);
 	return {
 		team: { id: team.id, name: team.name },
-		observations: rows.map((o) => ({
-			id: o.id,
-			name: o.name,
-			array: o.summary.array.name,
-			antennas: o.summary.array.antennas.length,
-			fields: o.summary.fields.length,
-			scans: o.summary.scans.length,
-			uploadedBy: o.uploadedByEmail,
-			createdAt: o.createdAt.toISOString()
-		})),
+		observations: await listObservationItems(getDb(), team.id),
 		canUpload: can(actorOf(user), 'observation.upload', subject)
 	};
 };

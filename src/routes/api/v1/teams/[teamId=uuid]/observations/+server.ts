@@ -3,27 +3,12 @@ import type { RequestHandler } from './$types';
 import { apiError, apiHandler, MAX_JSON_BODY_BYTES } from '$lib/server/http';
 import { requireCan } from '$lib/server/guards';
 import { getDb } from '$lib/server/db/client';
-import { listObservations } from '$lib/server/db/queries/observations';
-import { uploadObservation } from '$lib/server/services/observations';
+import { listObservationItems, uploadObservation } from '$lib/server/services/observations';
 import type { ObservationListResponse, ObservationUploadResponse } from './contract';
 
 export const GET: RequestHandler = apiHandler(async (event) => {
 	requireCan(event, 'observation.view', { teamId: event.params.teamId }, 'team.view');
-	const rows = await listObservations(getDb(), event.params.teamId);
-	const body: ObservationListResponse = {
-		items: rows.map((o) => ({
-			id: o.id,
-			name: o.name,
-			array: o.summary.array.name,
-			antennas: o.summary.array.antennas.length,
-			fields: o.summary.fields.length,
-			scans: o.summary.scans.length,
-			sha256: o.sha256,
-			uploadedBy: o.uploadedByEmail,
-			createdAt: o.createdAt.toISOString()
-		})),
-		nextCursor: null
-	};
+	const body: ObservationListResponse = { items: await listObservationItems(getDb(), event.params.teamId), nextCursor: null };
 	return json(body);
 });
 
