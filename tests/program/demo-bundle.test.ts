@@ -291,6 +291,7 @@ describe('the demo default recipe run on the demo bundle', () => {
 		const delta = (truth.amp_drift * 2 * Math.PI * dtMax) / (truth.amp_drift_period_s * (1 - truth.amp_drift));
 		const driftBound = (1 + delta) ** 2 - 1;
 		const tolerance = sTrue * (noiseBound + driftBound);
+		console.info({ snrBl, sigmaRel, noiseBound, dtMax, delta, driftBound, nClean });
 		expect(Math.abs((got?.derived_jy ?? NaN) - sTrue)).toBeLessThan(tolerance);
 		// and the bound is a meaningful one: under 2 % of the flux density
 		expect(tolerance / sTrue).toBeLessThan(0.02);
