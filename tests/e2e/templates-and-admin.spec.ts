@@ -60,7 +60,9 @@ async function versionCount(id: string): Promise<number> {
  * 200 with { type: 'failure' | 'error', status } when the action refuses, so that status is returned.
  */
 async function postAction(page: Page, url: string, form: Record<string, string>): Promise<{ status: number; text: string }> {
-	const res = await page.request.post(url, { form, maxRedirects: 0, headers: { accept: 'application/json', 'x-sveltekit-action': 'true' } });
+	// The app's own origin, or SvelteKit's CSRF check refuses the post (403) before the action runs.
+	const origin = new URL(page.url()).origin;
+	const res = await page.request.post(url, { form, maxRedirects: 0, headers: { origin, accept: 'application/json', 'x-sveltekit-action': 'true' } });
 	const text = await res.text();
 	if (res.status() !== 200) return { status: res.status(), text };
 	const body = JSON.parse(text) as { type: string; status?: number };
@@ -157,6 +159,7 @@ test('members cannot edit a team template and other teams cannot see it', async 
 	await expect(member.getByRole('link', { name: 'New version' })).toHaveCount(0);
 	const posted = await postAction(member, `/templates/${id}/new-version?/saveVersion`, { baseVersion: '1', changelog: 'Not allowed', [`file:${ENTRY}`]: '# nothing' });
 	expect(posted.status).toBe(403);
+	expect(posted.text).toContain('Your role does not allow this');
 	expect(await versionCount(id)).toBe(1);
 
 	for (const persona of ['otherMember', 'otherLead'] as const) {
@@ -238,7 +241,9 @@ test('the site admin sees failed notifications and queues one again; a member ge
 	await signInAs(other, baseURL ?? '', 'member');
 	const member = await other.newPage();
 	expect((await member.goto('/admin/notifications'))?.status()).toBe(403);
-	expect((await postAction(member, '/admin/notifications?/retry', { id: row?.id ?? '' })).status).toBe(403);
+	const refused = await postAction(member, '/admin/notifications?/retry', { id: row?.id ?? '' });
+	expect(refused.status).toBe(403);
+	expect(refused.text).toContain('Your role does not allow this');
 	expect((await query<{ status: string }>('select status::text from notifications where id = $1', [row?.id]))[0]?.status).toBe('failed');
 	await other.close();
 

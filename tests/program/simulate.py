@@ -347,7 +347,7 @@ def select_scans(summary, choice, field_index):
         for s in scans:
             chosen.append(s)
             seen.add(s["field_id"])
-            if seen == wanted and not field_index[s["field_id"]][1] == "target":
+            if seen == wanted and field_index[s["field_id"]][1] != "target":
                 return chosen
         return chosen
     ids = []
@@ -396,7 +396,10 @@ def simulate_observation(opts):
     fields = summary["fields"]
     field_index = {}
     kinds, intents_text = [], []
-    point_fluxes = [float(x) for x in opts.calibrator_fluxes.split(",")]
+    try:
+        point_fluxes = [float(x) for x in opts.calibrator_fluxes.split(",")]
+    except ValueError:
+        raise SummaryError("--calibrator-fluxes %r: give a comma list of flux densities in Jy, such as 2.345,1.234" % opts.calibrator_fluxes)
     n_point = 0
     for i, f in enumerate(fields):
         intents = list(f.get("intents") or [])
