@@ -140,6 +140,38 @@ test('a broken edit is refused with the file and line, keeps the edit, and store
 	await expect(versionRows(page, name)).toHaveCount(1);
 });
 
+test('without JavaScript each file is a textarea and the same form saves a version, with LF line ends kept', async ({ browser, baseURL }) => {
+	const ctx = await browser.newContext({ javaScriptEnabled: false });
+	await signInAs(ctx, baseURL ?? '', 'lead');
+	const page = await ctx.newPage();
+	const name = freshName('plain');
+	await page.goto('/templates');
+	await page.getByLabel('Name', { exact: true }).fill(name);
+	await page.getByRole('button', { name: 'Start the template' }).click();
+	await expect(page.getByRole('status')).toContainText(`Started the team template "${name}"`);
+	await page.getByRole('link', { name: `New version of ${name}` }).click();
+	await expect(page.getByRole('heading', { level: 1, name: `New version of ${name}` })).toBeVisible();
+	await expect(page.getByTestId('template-editor')).toHaveCount(0);
+
+	const entry = page.getByLabel(ENTRY, { exact: true });
+	const text = await entry.inputValue();
+	const firstBreak = text.indexOf('\n');
+	await entry.fill(`${text.slice(0, firstBreak)}\n# Edited without JavaScript${text.slice(firstBreak)}`);
+	await page.getByLabel('What changed in this version').fill('Edited in a plain form');
+	await page.getByRole('button', { name: 'Save as version 2' }).click();
+	await expect(page.getByTestId('save-outcome')).toContainText(`Saved version 2 of ${name}`);
+
+	// Browsers post textarea line breaks as CRLF; the stored files must keep the LF of the starter set.
+	const rows = await query<{ entry: string; n_cr: number }>(
+		`select v.files ->> $2 as entry, (select count(*)::int from jsonb_each_text(v.files) f where position(chr(13) in f.value) > 0) as n_cr
+		 from template_versions v join script_templates t on t.id = v.template_id where t.name = $1 and v.version = 2`,
+		[name, ENTRY]
+	);
+	expect(rows[0]?.n_cr).toBe(0);
+	expect(rows[0]?.entry.split('\n')[1]).toBe('# Edited without JavaScript');
+	await ctx.close();
+});
+
 test('members cannot edit a team template and other teams cannot see it', async ({ page, context, baseURL, browser }) => {
 	await signInAs(context, baseURL ?? '', 'lead');
 	const name = freshName('private');

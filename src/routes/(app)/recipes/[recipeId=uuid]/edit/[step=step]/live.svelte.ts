@@ -26,6 +26,7 @@ export class WizardLive {
 	#saveTimer: ReturnType<typeof setTimeout> | undefined;
 	#controller: AbortController | null = null;
 	#savedJson: string;
+	#inFlight: Promise<void> | null = null;
 
 	constructor(init: { recipeId: string; observationId: string | null; revision: number; findings: Finding[]; program: { text: string; sha256: string } | null; draft: RecipeParams; withProgram: boolean }) {
 		this.#recipeId = init.recipeId;
@@ -48,7 +49,9 @@ export class WizardLive {
 		if (this.saveState !== 'conflict') {
 			this.saveState = 'unsaved';
 			clearTimeout(this.#saveTimer);
-			this.#saveTimer = setTimeout(() => void this.#autosave(draft, json), 1000);
+			this.#saveTimer = setTimeout(() => {
+				this.#inFlight = this.#autosave(draft, json).finally(() => (this.#inFlight = null));
+			}, 1000);
 		}
 	}
 
@@ -56,6 +59,11 @@ export class WizardLive {
 	cancelAutosave(): void {
 		clearTimeout(this.#saveTimer);
 		clearTimeout(this.#checkTimer);
+	}
+
+	/** Resolves once an autosave already on its way has finished (its new revision is then known). */
+	whenSaved(): Promise<void> {
+		return this.#inFlight ?? Promise.resolve();
 	}
 
 	async #check(draft: RecipeParams): Promise<void> {
