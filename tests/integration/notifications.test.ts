@@ -1,8 +1,7 @@
+import { NOW, setUpDemoTeams } from './fixtures';
 import { describe, expect, it } from 'vitest';
 import { asc, eq } from 'drizzle-orm';
 import { inRollback } from './db';
-import { seedDemo } from '../../src/lib/server/services/seed';
-import { createRecipe, saveVersion } from '../../src/lib/server/services/recipes';
 import { addComment, decideReview, submitForReview } from '../../src/lib/server/services/reviews';
 import { shareRecipe } from '../../src/lib/server/services/sharing';
 import { forkVersion } from '../../src/lib/server/services/forks';
@@ -11,48 +10,19 @@ import { computeRetryDelayMs, MAX_SEND_ATTEMPTS, processNotifications, startNoti
 import { startFakeSmtp } from '../../src/lib/server/mail/fake-smtp';
 import { sendMail } from '../../src/lib/server/mail/transport';
 import { insertMailMessage, listMailMessages, type NewMailMessage } from '../../src/lib/server/db/queries/mail';
-import { getRecipeVersion } from '../../src/lib/server/db/queries/recipes';
-import { listObservations } from '../../src/lib/server/db/queries/observations';
-import { getTeamBySlug } from '../../src/lib/server/db/queries/teams';
-import { findUserByEmail } from '../../src/lib/server/db/queries/users';
 import { notifications, users } from '../../src/lib/server/db/schema';
 import { getEnv } from '../../src/lib/server/env';
 import type { Executor } from '../../src/lib/server/db/client';
 
-const NOW = new Date('2026-12-01T12:00:00Z');
 const BASE_URL = 'http://127.0.0.1:4183';
 const minutes = (m: number): Date => new Date(NOW.getTime() + m * 60_000);
 // A title with characters HTML gives meaning to: they must reach the plain text unchanged.
 const TITLE = 'Bandpass & gain <L-band> "night 1"';
 
-// Invented demo teams (services/seed.ts): Stellar Nurseries (Ada member, Ravi reviewer,
-// Lena lead) and Tidewater Transients (Tomás lead, Inès member).
 async function setUp(tx: Executor) {
-	await seedDemo(tx);
-	const team = await getTeamBySlug(tx, 'stellar-nurseries');
-	const other = await getTeamBySlug(tx, 'tidewater-transients');
-	if (!team || !other) throw new Error('seed did not create the demo teams');
-	const id = async (email: string) => {
-		const u = await findUserByEmail(tx, email);
-		if (!u) throw new Error(`no ${email}`);
-		return u.id;
-	};
-	const people = {
-		ada: await id('ada@stellar-nurseries.example'),
-		ravi: await id('ravi@stellar-nurseries.example'),
-		lena: await id('lena@stellar-nurseries.example'),
-		tomas: await id('tomas@tidewater.example'),
-		ines: await id('ines@tidewater.example')
-	};
-	const [obs] = await listObservations(tx, team.id);
-	if (!obs) throw new Error('no demo observation');
-	const recipe = await createRecipe(tx, { teamId: team.id, observationId: obs.id, title: TITLE, userId: people.ada });
-	if (!recipe.ok) throw new Error(recipe.error.message);
-	const saved = await saveVersion(tx, { recipeId: recipe.value.id, userId: people.ada, message: 'v1', now: NOW });
-	if (!saved.ok) throw new Error(saved.error.message);
-	const v1 = await getRecipeVersion(tx, recipe.value.id, 1);
-	if (!v1) throw new Error('no v1');
-	return { team, other, people, recipeId: recipe.value.id, versionId: v1.id };
+	const f = await setUpDemoTeams(tx, { title: TITLE });
+	const v1 = await f.save(f.recipeId, f.people.ada, 'v1');
+	return { ...f, versionId: v1.id };
 }
 
 async function queued(tx: Executor) {

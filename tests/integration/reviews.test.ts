@@ -1,53 +1,23 @@
+import { later, setUpDemoTeams } from './fixtures';
 import { describe, expect, it } from 'vitest';
 import { eq, sql } from 'drizzle-orm';
 import { inRollback } from './db';
-import { seedDemo } from '../../src/lib/server/services/seed';
-import { createRecipe, saveVersion } from '../../src/lib/server/services/recipes';
 import { addComment, decideReview, getReviewTimeline, listReviewActionsFor, listReviewQueue, submitForReview, withdrawFromReview } from '../../src/lib/server/services/reviews';
 import { listAudit } from '../../src/lib/server/services/audit';
 import { getRecipeVersion, insertRecipeVersion } from '../../src/lib/server/db/queries/recipes';
-import { listObservations } from '../../src/lib/server/db/queries/observations';
-import { getTeamBySlug } from '../../src/lib/server/db/queries/teams';
-import { findUserByEmail } from '../../src/lib/server/db/queries/users';
 import { reviewEvents } from '../../src/lib/server/db/schema';
 import type { Executor } from '../../src/lib/server/db/client';
 import type { Finding } from '../../src/lib/calibration/validate';
 
-const NOW = new Date('2026-12-01T12:00:00Z');
-const later = (minutes: number): Date => new Date(NOW.getTime() + minutes * 60_000);
 
-// The invented demo teams (services/seed.ts): Stellar Nurseries (Ada member, Ravi reviewer,
-// Lena lead) and Tidewater Transients (Tomás lead, Inès member).
 async function setUp(tx: Executor) {
-	await seedDemo(tx);
-	const team = await getTeamBySlug(tx, 'stellar-nurseries');
-	const other = await getTeamBySlug(tx, 'tidewater-transients');
-	if (!team || !other) throw new Error('seed did not create the demo teams');
-	const person = async (email: string) => {
-		const u = await findUserByEmail(tx, email);
-		if (!u) throw new Error(`no ${email}`);
-		return u.id;
-	};
-	const people = {
-		ada: await person('ada@stellar-nurseries.example'),
-		ravi: await person('ravi@stellar-nurseries.example'),
-		lena: await person('lena@stellar-nurseries.example'),
-		tomas: await person('tomas@tidewater.example'),
-		ines: await person('ines@tidewater.example')
-	};
-	const [obs] = await listObservations(tx, team.id);
-	if (!obs) throw new Error('no demo observation');
-	const recipe = await createRecipe(tx, { teamId: team.id, observationId: obs.id, userId: people.ada });
-	if (!recipe.ok) throw new Error(recipe.error.message);
-	/** Saves the draft as the next version, authored by `userId`; returns the version's id. */
+	const f = await setUpDemoTeams(tx);
+	/** Saves the draft as the next version, authored by `userId`. */
 	const saveAs = async (userId: string, message: string): Promise<{ id: string; version: number }> => {
-		const saved = await saveVersion(tx, { recipeId: recipe.value.id, userId, message, now: NOW });
-		if (!saved.ok) throw new Error(saved.error.message);
-		const row = await getRecipeVersion(tx, recipe.value.id, saved.value.version);
-		if (!row) throw new Error('saved version not found');
-		return { id: row.id, version: row.version };
+		const v = await f.save(f.recipeId, userId, message);
+		return { id: v.id, version: v.version };
 	};
-	return { team, other, people, recipeId: recipe.value.id, saveAs };
+	return { ...f, saveAs };
 }
 
 describe('review workflow on real versions', () => {

@@ -1,7 +1,7 @@
+import { NOW, later, setUpDemoTeams } from './fixtures';
 import { describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { inRollback } from './db';
-import { seedDemo } from '../../src/lib/server/services/seed';
 import { createRecipe, saveVersion } from '../../src/lib/server/services/recipes';
 import { uploadObservation } from '../../src/lib/server/services/observations';
 import { listShared, shareRecipe, withdrawShare } from '../../src/lib/server/services/sharing';
@@ -12,46 +12,14 @@ import { syncStarterTemplates } from '../../src/lib/server/services/templates';
 import { STARTER_FILES, STARTER_TEMPLATE_NAME } from '../../src/lib/server/templates/starter';
 import { getRecipe, getRecipeVersion } from '../../src/lib/server/db/queries/recipes';
 import { getObservation, listObservations } from '../../src/lib/server/db/queries/observations';
-import { getTeamBySlug, setRulePolicy } from '../../src/lib/server/db/queries/teams';
-import { findUserByEmail } from '../../src/lib/server/db/queries/users';
+import { setRulePolicy } from '../../src/lib/server/db/queries/teams';
 import { recipes } from '../../src/lib/server/db/schema';
 import { createDemoObservation } from '../../src/lib/calibration/demo-observation';
 import type { Executor } from '../../src/lib/server/db/client';
 
-const NOW = new Date('2026-12-01T12:00:00Z');
-const later = (minutes: number): Date => new Date(NOW.getTime() + minutes * 60_000);
 
-// Invented demo teams (services/seed.ts); the demo observation covers 1.0–1.5 GHz on the
-// invented Corrie Flats Array (DESIGN.md "Demo scenario").
 async function setUp(tx: Executor) {
-	await seedDemo(tx);
-	const team = await getTeamBySlug(tx, 'stellar-nurseries');
-	const other = await getTeamBySlug(tx, 'tidewater-transients');
-	if (!team || !other) throw new Error('seed did not create the demo teams');
-	const id = async (email: string) => {
-		const u = await findUserByEmail(tx, email);
-		if (!u) throw new Error(`no ${email}`);
-		return u.id;
-	};
-	const people = {
-		ada: await id('ada@stellar-nurseries.example'),
-		ravi: await id('ravi@stellar-nurseries.example'),
-		lena: await id('lena@stellar-nurseries.example'),
-		tomas: await id('tomas@tidewater.example'),
-		ines: await id('ines@tidewater.example')
-	};
-	const [obs] = await listObservations(tx, team.id);
-	if (!obs) throw new Error('no demo observation');
-	const recipe = await createRecipe(tx, { teamId: team.id, observationId: obs.id, title: 'Nursery L-band calibration', userId: people.ada });
-	if (!recipe.ok) throw new Error(recipe.error.message);
-	const save = async (recipeId: string, userId: string, message: string) => {
-		const r = await saveVersion(tx, { recipeId, userId, message, now: NOW });
-		if (!r.ok) throw new Error(r.error.message);
-		const v = await getRecipeVersion(tx, recipeId, r.value.version);
-		if (!v) throw new Error('no version');
-		return v;
-	};
-	return { team, other, people, observationId: obs.id, recipeId: recipe.value.id, save };
+	return setUpDemoTeams(tx, { title: 'Nursery L-band calibration' });
 }
 
 // A second invented observation in the other team: another array at 4.0–4.5 GHz.
