@@ -91,6 +91,7 @@ export async function insertTemplateVersion(
 }
 
 export type TemplateVersionListItem = {
+	id: string;
 	templateName: string;
 	teamId: string | null;
 	version: number;
@@ -105,6 +106,7 @@ export type TemplateVersionListItem = {
 export async function listTemplateVersions(db: Executor, teamIds: readonly string[]): Promise<TemplateVersionListItem[]> {
 	const rows = await db
 		.select({
+			id: templateVersions.id,
 			templateName: scriptTemplates.name,
 			teamId: scriptTemplates.teamId,
 			version: templateVersions.version,
