@@ -1,5 +1,5 @@
 import type { ObservationSummary } from './observation-schema';
-import type { ChannelRange, FluxModel, RecipeParams, Step } from './recipe';
+import type { ChannelRange, FluxModel, RecipeParams, Step, StepKind } from './recipe';
 import { rankSummaryAntennas } from './reference-antenna';
 import { computeUnambiguousDelayNs } from './sensitivity';
 import { suggestRoles } from './suggest-roles';
@@ -21,21 +21,43 @@ export function createCentralChannels(nChan: number): ChannelRange[] {
 	return [{ start, end: start + width - 1 }];
 }
 
-function withRole(fields: { name: string; roles: FieldRole[] }[], role: FieldRole): string[] {
+/** Names of the fields that hold `role`. */
+export function listFieldsWithRole(fields: readonly { name: string; roles: readonly FieldRole[] }[], role: FieldRole): string[] {
 	return fields.filter((f) => f.roles.includes(role)).map((f) => f.name);
+}
+
+/** The fields a step of `kind` works on, from the recipe's field roles. */
+export function computeStepFields(fields: readonly { name: string; roles: readonly FieldRole[] }[], kind: StepKind): string[] {
+	const flux = listFieldsWithRole(fields, 'flux_calibrator');
+	const bandpass = listFieldsWithRole(fields, 'bandpass_calibrator');
+	const gainCals = listFieldsWithRole(fields, 'gain_calibrator');
+	const calibrators = (): string[] => fields.filter((f) => f.roles.length > 0 && !f.roles.includes('target')).map((f) => f.name);
+	switch (kind) {
+		case 'delay': {
+			const delay = listFieldsWithRole(fields, 'delay_calibrator');
+			return delay.length > 0 ? delay : bandpass;
+		}
+		case 'bandpass_prep':
+		case 'bandpass':
+			return bandpass;
+		case 'gain':
+			return [...new Set([...flux, ...gainCals])];
+		case 'flux_bootstrap':
+			return gainCals.filter((g) => !flux.includes(g));
+		case 'apply':
+			return [...calibrators(), ...listFieldsWithRole(fields, 'target')];
+		case 'verify':
+			return calibrators();
+	}
 }
 
 /** A sensible starting recipe for an observation: it validates with no errors when the observation allows it. */
 export function createDefaultRecipe(summary: ObservationSummary, options: { title?: string } = {}): RecipeParams {
 	const suggestion = suggestRoles(summary);
 	const fields = suggestion.fields.filter((f) => f.roles.length > 0).map((f) => ({ name: f.name, roles: f.roles }));
-	const flux = withRole(fields, 'flux_calibrator');
-	const bandpass = withRole(fields, 'bandpass_calibrator');
-	const delayRole = withRole(fields, 'delay_calibrator');
-	const delay = delayRole.length > 0 ? delayRole : bandpass;
-	const gainCals = withRole(fields, 'gain_calibrator');
-	const targets = withRole(fields, 'target');
-	const calibrators = fields.filter((f) => !f.roles.includes('target')).map((f) => f.name);
+	const flux = listFieldsWithRole(fields, 'flux_calibrator');
+	const delay = computeStepFields(fields, 'delay');
+	const bandpass = computeStepFields(fields, 'bandpass');
 
 	const flux_models: { field: string; model: FluxModel }[] = [];
 	for (const f of suggestion.fields) {
@@ -61,15 +83,15 @@ export function createDefaultRecipe(summary: ObservationSummary, options: { titl
 	steps.push({ kind: 'bandpass', fields: bandpass, interval: { mode: 'scan' }, min_snr: DEFAULT_MIN_SNR.bandpass });
 	steps.push({
 		kind: 'gain',
-		fields: [...new Set([...flux, ...gainCals])],
+		fields: computeStepFields(fields, 'gain'),
 		interval: { mode: 'scan' },
 		solve_for: 'amplitude_and_phase',
 		min_snr: DEFAULT_MIN_SNR.gain_complex
 	});
-	const scaled = gainCals.filter((g) => !flux.includes(g));
+	const scaled = computeStepFields(fields, 'flux_bootstrap');
 	if (flux.length > 0 && scaled.length > 0) steps.push({ kind: 'flux_bootstrap', fields: scaled });
-	steps.push({ kind: 'apply', fields: [...calibrators, ...targets] });
-	steps.push({ kind: 'verify', fields: calibrators, ...DEFAULT_VERIFY });
+	steps.push({ kind: 'apply', fields: computeStepFields(fields, 'apply') });
+	steps.push({ kind: 'verify', fields: computeStepFields(fields, 'verify'), ...DEFAULT_VERIFY });
 
 	return {
 		schema_version: 1,

@@ -11,6 +11,19 @@ export type RoleSuggestion = { fields: FieldSuggestion[]; targets: TargetSuggest
 
 const STANDARD_ROLES: FieldRole[] = ['flux_calibrator', 'bandpass_calibrator', 'delay_calibrator'];
 
+/** The field among `among` nearest on the sky to field `name` (by name), with the separation in degrees. */
+export function findNearestField(summary: ObservationSummary, name: string, among: Iterable<string>): { name: string; sep: number } | null {
+	const a = summary.fields.find((f) => f.name === name);
+	let best: { name: string; sep: number } | null = null;
+	for (const other of among) {
+		const b = summary.fields.find((f) => f.name === other);
+		if (!a || !b || other === name) continue;
+		const sep = angularSeparationDeg(a.ra_deg, a.dec_deg, b.ra_deg, b.dec_deg);
+		if (!best || sep < best.sep) best = { name: other, sep };
+	}
+	return best;
+}
+
 /**
  * Suggest field roles: the observation's intents when present; else a recognised flux standard becomes the
  * flux, bandpass and delay calibrator; among the other fields, those observed in short scans (median at most half
@@ -33,19 +46,8 @@ export function suggestRoles(summary: ObservationSummary): RoleSuggestion {
 	const longest = Math.max(0, ...medians);
 	const candidates = new Set(open.filter((f, i) => (stats.get(f.id)?.count ?? 0) >= 2 && (medians[i] ?? 0) <= longest / 2).map((f) => f.name));
 
-	const byName = new Map(summary.fields.map((f) => [f.name, f]));
 	const gainCalibrators = (): string[] => fields.filter((f) => f.roles.includes('gain_calibrator')).map((f) => f.name);
-	const findNearest = (name: string, among: Iterable<string>): { name: string; sep: number } | null => {
-		const a = byName.get(name);
-		let best: { name: string; sep: number } | null = null;
-		for (const other of among) {
-			const b = byName.get(other);
-			if (!a || !b || other === name) continue;
-			const sep = angularSeparationDeg(a.ra_deg, a.dec_deg, b.ra_deg, b.dec_deg);
-			if (!best || sep < best.sep) best = { name: other, sep };
-		}
-		return best;
-	};
+	const findNearest = (name: string, among: Iterable<string>) => findNearestField(summary, name, among);
 
 	// Fields left open that are not calibrator candidates are targets; each picks its nearest candidate.
 	const chosen = new Set<string>();

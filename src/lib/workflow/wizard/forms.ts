@@ -2,8 +2,8 @@ import { z } from 'zod';
 import type { ObservationSummary } from '$lib/calibration/observation-schema';
 import { fieldRoleSchema, standardNameSchema, type FieldRole, type FluxModel, type RecipeParams, type SolutionInterval, type Step, type StepOf } from '$lib/calibration/recipe';
 import { FLUX_STANDARDS, matchStandard } from '$lib/calibration/flux-standards';
-import { angularSeparationDeg } from '$lib/calibration/geometry';
-import { DEFAULT_MIN_SNR, DEFAULT_VERIFY } from '$lib/calibration/defaults';
+import { findNearestField } from '$lib/calibration/suggest-roles';
+import { computeStepFields, DEFAULT_MIN_SNR, DEFAULT_VERIFY, listFieldsWithRole } from '$lib/calibration/defaults';
 import { formatRanges, parseRanges } from '$lib/components/recipe/channel-ranges';
 
 // Flat form schemas, one per wizard screen: they post as ordinary HTML form fields (so the
@@ -74,48 +74,9 @@ export type ReferenceForm = z.infer<typeof referenceFormSchema>;
 export type ChannelsForm = z.infer<typeof channelsFormSchema>;
 export type SolveForm = z.infer<typeof solveFormSchema>;
 
-function nearestOf(summary: ObservationSummary, name: string, among: readonly string[]): string | null {
-	const a = summary.fields.find((f) => f.name === name);
-	let best: { name: string; sep: number } | null = null;
-	for (const other of among) {
-		const b = summary.fields.find((f) => f.name === other);
-		if (!a || !b || other === name) continue;
-		const sep = angularSeparationDeg(a.ra_deg, a.dec_deg, b.ra_deg, b.dec_deg);
-		if (!best || sep < best.sep) best = { name: other, sep };
-	}
-	return best?.name ?? null;
-}
-
-function withRole(fields: RecipeParams['fields'], role: FieldRole): string[] {
-	return fields.filter((f) => f.roles.includes(role)).map((f) => f.name);
-}
-
 /** Keeps the step list consistent with the roles: which fields each step works on. */
 export function alignStepFields(draft: RecipeParams): RecipeParams {
-	const flux = withRole(draft.fields, 'flux_calibrator');
-	const bandpass = withRole(draft.fields, 'bandpass_calibrator');
-	const delayRole = withRole(draft.fields, 'delay_calibrator');
-	const gainCals = withRole(draft.fields, 'gain_calibrator');
-	const targets = withRole(draft.fields, 'target');
-	const calibrators = draft.fields.filter((f) => !f.roles.includes('target') && f.roles.length > 0).map((f) => f.name);
-	const fieldsFor = (s: Step): string[] => {
-		switch (s.kind) {
-			case 'delay':
-				return delayRole.length > 0 ? delayRole : bandpass;
-			case 'bandpass_prep':
-			case 'bandpass':
-				return bandpass;
-			case 'gain':
-				return [...new Set([...flux, ...gainCals])];
-			case 'flux_bootstrap':
-				return gainCals.filter((g) => !flux.includes(g));
-			case 'apply':
-				return [...calibrators, ...targets];
-			case 'verify':
-				return calibrators;
-		}
-	};
-	return { ...draft, steps: draft.steps.map((s) => ({ ...s, fields: fieldsFor(s) }) as Step) };
+	return { ...draft, steps: draft.steps.map((s) => ({ ...s, fields: computeStepFields(draft.fields, s.kind) }) as Step) };
 }
 
 // ---- roles -------------------------------------------------------------------------------
@@ -148,7 +109,7 @@ export function applyRolesForm(draft: RecipeParams, summary: ObservationSummary,
 		const set = roles.get(i);
 		return set && set.size > 0 ? [{ name: f.name, roles: fieldRoleSchema.options.filter((r) => set.has(r)) }] : [];
 	});
-	const gainCals = withRole(fields, 'gain_calibrator');
+	const gainCals = listFieldsWithRole(fields, 'gain_calibrator');
 	const picked = new Map<string, string>();
 	for (const v of form.target_gcal) {
 		const [t, g] = v.split(':').map(Number);
@@ -162,14 +123,14 @@ export function applyRolesForm(draft: RecipeParams, summary: ObservationSummary,
 		const tf = summary.fields[Number(t)];
 		if (tf && (mode === 'linear' || mode === 'nearest')) interp.set(tf.name, mode);
 	}
-	const targets = withRole(fields, 'target').map((name) => {
+	const targets = listFieldsWithRole(fields, 'target').map((name) => {
 		const chosen = picked.get(name);
-		const gain_calibrator = chosen && gainCals.includes(chosen) ? chosen : (nearestOf(summary, name, gainCals) ?? chosen ?? '');
+		const gain_calibrator = chosen && gainCals.includes(chosen) ? chosen : (findNearestField(summary, name, gainCals)?.name ?? chosen ?? '');
 		return { field: name, gain_calibrator, interpolation: interp.get(name) ?? 'linear' };
 	});
 	if (issues.length > 0) return { ok: false, issues };
 	// New flux calibrators get the published standard they match, when there is one.
-	const flux_models = withRole(fields, 'flux_calibrator').flatMap((name) => {
+	const flux_models = listFieldsWithRole(fields, 'flux_calibrator').flatMap((name) => {
 		const existing = draft.flux_models.find((m) => m.field === name);
 		if (existing) return [existing];
 		const f = summary.fields.find((x) => x.name === name);
@@ -182,7 +143,7 @@ export function applyRolesForm(draft: RecipeParams, summary: ObservationSummary,
 // ---- flux ----------------------------------------------------------------------------------
 
 export function fluxFormValues(draft: RecipeParams): Omit<FluxForm, 'revision'> {
-	const fluxCals = withRole(draft.fields, 'flux_calibrator');
+	const fluxCals = listFieldsWithRole(draft.fields, 'flux_calibrator');
 	const models = fluxCals.map((name) => draft.flux_models.find((m) => m.field === name)?.model ?? null);
 	const manual = (m: FluxModel | null) => (m && m.kind === 'manual' ? m : null);
 	return {
@@ -193,8 +154,8 @@ export function fluxFormValues(draft: RecipeParams): Omit<FluxForm, 'revision'> 
 		model_ref_freq_mhz: models.map((m) => (manual(m) ? String((manual(m)?.ref_freq_hz ?? 0) / 1e6) : '')),
 		model_alpha: models.map((m) => String(manual(m)?.spectral_index ?? '')),
 		model_curvature: models.map((m) => String(manual(m)?.curvature ?? '')),
-		estimate_field: withRole(draft.fields, 'gain_calibrator').filter((g) => !fluxCals.includes(g)),
-		estimate_jy: withRole(draft.fields, 'gain_calibrator')
+		estimate_field: listFieldsWithRole(draft.fields, 'gain_calibrator').filter((g) => !fluxCals.includes(g)),
+		estimate_jy: listFieldsWithRole(draft.fields, 'gain_calibrator')
 			.filter((g) => !fluxCals.includes(g))
 			.map((g) => String(draft.flux_estimates.find((e) => e.field === g)?.flux_jy ?? ''))
 	};
