@@ -3,7 +3,7 @@ import type { z } from 'zod';
 import type { DomainError, ErrorCode } from '$lib/workflow/errors';
 
 /** The single map from error code to HTTP status. */
-export function statusFor(code: ErrorCode): number {
+export function statusFor(code: ErrorCode): 400 | 401 | 403 | 404 | 409 | 500 {
 	switch (code) {
 		case 'validation_failed':
 			return 400;
@@ -30,13 +30,19 @@ function codeForStatus(status: number): ErrorCode {
 }
 
 /** A JSON error reply in the one shape every API route uses. */
-export function apiError(e: DomainError, status = statusFor(e.code)): Response {
+export function apiError(e: DomainError, status: number = statusFor(e.code)): Response {
 	return json({ error: e }, { status });
 }
 
 /** Throws (as a page or API error) for a failed domain operation. */
 export function throwDomainError(e: DomainError): never {
 	error(statusFor(e.code), { message: e.message, code: e.code });
+}
+
+/** A form post's text fields as a plain object (file fields become ''), ready for a zod schema. */
+export async function readFormFields(request: Request): Promise<Record<string, string>> {
+	const form = await request.formData();
+	return Object.fromEntries([...form.entries()].map(([k, v]) => [k, typeof v === 'string' ? v : '']));
 }
 
 export const MAX_JSON_BODY_BYTES = 6 * 1024 * 1024;

@@ -16,6 +16,11 @@ import { STARTER_FILES, STARTER_TEMPLATE_NAME } from '../templates/starter';
 import { renderWithTemplate } from './render';
 import { recordAudit } from './audit';
 
+/** The refusal for an edit based on an older draft revision than the stored one. */
+function staleRevision(base: number, current: number) {
+	return fail('conflict', `Someone else saved this recipe after you opened it (you edited revision ${base}, it is now at ${current}). Reload to see their changes; your edit was not saved.`);
+}
+
 /** Creates a recipe for one of the team's observations, starting from the engine's defaults. */
 export async function createRecipe(db: Executor, input: { teamId: string; observationId: string; title?: string; userId: string | null }): Promise<DomainResult<{ id: string }>> {
 	return inResultTransaction(db, async (tx) => {
@@ -45,7 +50,7 @@ export async function saveVersion(
 		const recipe = await getRecipe(tx, input.recipeId, true);
 		if (!recipe) return fail('not_found', 'No such recipe.');
 		if (input.baseRevision !== undefined && input.baseRevision !== recipe.draftRevision) {
-			return fail('conflict', `Someone saved this recipe after you opened it (your copy is revision ${input.baseRevision}, the recipe is at ${recipe.draftRevision}). Reload to see their changes; nothing was overwritten.`);
+			return staleRevision(input.baseRevision, recipe.draftRevision);
 		}
 		let params = recipe.draft;
 		if (input.params !== undefined) {
@@ -101,7 +106,7 @@ export async function saveDraft(db: Executor, input: { recipeId: string; baseRev
 		const recipe = await getRecipe(tx, input.recipeId, true);
 		if (!recipe) return fail('not_found', 'No such recipe.');
 		if (recipe.draftRevision !== input.baseRevision) {
-			return fail('conflict', `Someone else saved this recipe after you opened it (you edited revision ${input.baseRevision}, it is now at ${recipe.draftRevision}). Reload to see their changes; your edit was not saved.`);
+			return staleRevision(input.baseRevision, recipe.draftRevision);
 		}
 		const revision = recipe.draftRevision + 1;
 		await updateDraft(tx, recipe.id, { draft: parsed.value, title: parsed.value.title, revision, userId: input.userId, now: input.now });
@@ -161,7 +166,7 @@ export async function changeObservation(db: Executor, input: { recipeId: string;
 		const recipe = await getRecipe(tx, input.recipeId, true);
 		if (!recipe) return fail('not_found', 'No such recipe.');
 		if (recipe.draftRevision !== input.baseRevision) {
-			return fail('conflict', `Someone else saved this recipe after you opened it (you edited revision ${input.baseRevision}, it is now at ${recipe.draftRevision}). Reload to see their changes; your edit was not saved.`);
+			return staleRevision(input.baseRevision, recipe.draftRevision);
 		}
 		if (recipe.observationId === input.observationId) return { ok: true, value: { revision: recipe.draftRevision } };
 		const obs = await getObservation(tx, input.observationId);

@@ -14,6 +14,7 @@ import { getTemplateVersionById, listTemplateVersions } from '$lib/server/db/que
 import { countFindings } from '$lib/components/recipe/findings-groups';
 import { can } from '$lib/workflow/permissions';
 import type { ReviewState } from '$lib/workflow/review-state';
+import { statusFor } from '$lib/server/http';
 
 export type RecipePageData = {
 	recipe: { id: string; title: string; teamId: string; revision: number; updatedAt: string };
@@ -74,7 +75,7 @@ export const actions: Actions = {
 	share: async (event) => {
 		const { recipe, user } = await loadRecipeFor(event, event.params.recipeId, 'recipe.share');
 		const r = await shareRecipe(getDb(), { recipeId: recipe.id, userId: user.id });
-		return r.ok ? { done: 'Shared with all teams: they can read it and fork it.' } : fail(r.error.code === 'conflict' ? 409 : 400, { problem: r.error.message });
+		return r.ok ? { done: 'Shared with all teams: they can read it and fork it.' } : fail(statusFor(r.error.code), { problem: r.error.message });
 	},
 	withdraw: async (event) => {
 		const { recipe, user } = await loadRecipeFor(event, event.params.recipeId, 'recipe.share');
@@ -87,7 +88,7 @@ export const actions: Actions = {
 		const parsed = moveSchema.safeParse({ template_version: form.get('template_version') ?? '', message: form.get('message') ?? '' });
 		if (!parsed.success) return fail(400, { problem: parsed.error.issues.map((i) => i.message).join(' ') });
 		const r = await moveRecipeToTemplate(getDb(), { recipeId: recipe.id, templateVersionId: parsed.data.template_version, userId: user.id, message: parsed.data.message });
-		if (!r.ok) return fail(r.error.code === 'forbidden' ? 403 : r.error.code === 'conflict' ? 409 : 400, { problem: r.error.message });
+		if (!r.ok) return fail(statusFor(r.error.code), { problem: r.error.message });
 		redirect(303, `/recipes/${recipe.id}/versions/${r.value.version}`);
 	},
 	fork: async (event) => {
@@ -97,7 +98,7 @@ export const actions: Actions = {
 		if (!parsed.success) return fail(400, { problem: parsed.error.issues.map((i) => i.message).join(' ') });
 		const user = requireCan(event, 'recipe.create', { teamId: parsed.data.team }, 'team.view');
 		const r = await forkVersion(getDb(), { sourceRecipeId: recipe.id, version: parsed.data.version, targetTeamId: parsed.data.team, userId: user.id });
-		if (!r.ok) return fail(r.error.code === 'forbidden' ? 403 : 400, { problem: r.error.message });
+		if (!r.ok) return fail(statusFor(r.error.code), { problem: r.error.message });
 		redirect(303, `/recipes/${r.value.recipeId}`);
 	}
 };

@@ -6,6 +6,7 @@ import { actorOf, requireCan } from '$lib/server/guards';
 import { addMember, changeRole, removeMember } from '$lib/server/services/teams';
 import { can, type TeamRole } from '$lib/workflow/permissions';
 import { addMemberInputSchema, changeRoleInputSchema, removeMemberInputSchema } from '$lib/workflow/team-schemas';
+import { readFormFields, statusFor } from '$lib/server/http';
 
 export type TeamPageData = {
 	team: { id: string; name: string };
@@ -28,34 +29,30 @@ export const load: PageServerLoad = async (event): Promise<TeamPageData> => {
 	};
 };
 
-function formObject(form: FormData): Record<string, string> {
-	return Object.fromEntries([...form.entries()].map(([k, v]) => [k, typeof v === 'string' ? v : '']));
-}
-
 export const actions: Actions = {
 	addMember: async (event) => {
 		requireCan(event, 'team.manage_members', { teamId: event.params.teamId });
-		const values = formObject(await event.request.formData());
+		const values = await readFormFields(event.request);
 		const parsed = addMemberInputSchema.safeParse(values);
 		if (!parsed.success) return fail(400, { action: 'addMember', values, message: parsed.error.issues.map((i) => i.message).join(' ') });
 		const r = await addMember(getDb(), event.params.teamId, parsed.data);
-		if (!r.ok) return fail(r.error.code === 'conflict' ? 409 : 400, { action: 'addMember', values, message: r.error.message });
+		if (!r.ok) return fail(statusFor(r.error.code), { action: 'addMember', values, message: r.error.message });
 		return { action: 'addMember', done: `${r.value.email} is now a ${r.value.role} of the team. They can sign in with that address.` };
 	},
 	changeRole: async (event) => {
 		requireCan(event, 'team.manage_members', { teamId: event.params.teamId });
-		const parsed = changeRoleInputSchema.safeParse(formObject(await event.request.formData()));
+		const parsed = changeRoleInputSchema.safeParse(await readFormFields(event.request));
 		if (!parsed.success) return fail(400, { action: 'changeRole', message: parsed.error.issues.map((i) => i.message).join(' ') });
 		const r = await changeRole(getDb(), event.params.teamId, parsed.data.userId, parsed.data.role);
-		if (!r.ok) return fail(r.error.code === 'conflict' ? 409 : 404, { action: 'changeRole', message: r.error.message });
+		if (!r.ok) return fail(statusFor(r.error.code), { action: 'changeRole', message: r.error.message });
 		return { action: 'changeRole', done: `${r.value.email} is now a ${r.value.role}.` };
 	},
 	removeMember: async (event) => {
 		requireCan(event, 'team.manage_members', { teamId: event.params.teamId });
-		const parsed = removeMemberInputSchema.safeParse(formObject(await event.request.formData()));
+		const parsed = removeMemberInputSchema.safeParse(await readFormFields(event.request));
 		if (!parsed.success) return fail(400, { action: 'removeMember', message: parsed.error.issues.map((i) => i.message).join(' ') });
 		const r = await removeMember(getDb(), event.params.teamId, parsed.data.userId);
-		if (!r.ok) return fail(r.error.code === 'conflict' ? 409 : 404, { action: 'removeMember', message: r.error.message });
+		if (!r.ok) return fail(statusFor(r.error.code), { action: 'removeMember', message: r.error.message });
 		return { action: 'removeMember', done: 'Member removed.' };
 	}
 };

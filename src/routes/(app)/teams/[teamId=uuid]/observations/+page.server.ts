@@ -5,6 +5,7 @@ import { getTeam } from '$lib/server/db/queries/teams';
 import { actorOf, requireCan } from '$lib/server/guards';
 import { listObservationItems, uploadObservation, type ObservationListItem } from '$lib/server/services/observations';
 import { can } from '$lib/workflow/permissions';
+import { statusFor } from '$lib/server/http';
 
 export type ObservationsPageData = {
 	team: { id: string; name: string };
@@ -35,7 +36,7 @@ export const actions: Actions = {
 			filename: file.name,
 			userId: user.id
 		});
-		if (!r.ok) return fail(r.error.code === 'conflict' ? 409 : 400, { message: r.error.message, issues: r.error.issues ?? [] });
+		if (!r.ok) return fail(statusFor(r.error.code), { message: r.error.message, issues: r.error.issues ?? [] });
 		redirect(303, `/observations/${r.value.id}`);
 	}
 };

@@ -6,6 +6,7 @@ import { getDb } from '$lib/server/db/client';
 import { getObservation, listObservations } from '$lib/server/db/queries/observations';
 import { getRulePolicy } from '$lib/server/db/queries/teams';
 import { loadRecipeFor } from '$lib/server/services/recipe-access';
+import { statusFor } from '$lib/server/http';
 import { changeObservation, saveDraft, saveVersion } from '$lib/server/services/recipes';
 import { renderWithTemplate } from '$lib/server/services/render';
 import { ensureStarterTemplates } from '$lib/server/services/templates';
@@ -115,7 +116,7 @@ async function finishStep<T extends { revision: number }>(
 		return message(form, { kind: 'problem', text: result.issues.map((i) => i.message).join(' ') }, { status: 400 });
 	}
 	const saved = await saveDraft(getDb(), { recipeId: ctx.recipeId, baseRevision: form.data.revision, params: result.draft, userId: ctx.userId, now: ctx.now });
-	if (!saved.ok) return message(form, { kind: saved.error.code === 'conflict' ? 'conflict' : 'problem', text: saved.error.message }, { status: saved.error.code === 'conflict' ? 409 : 400 });
+	if (!saved.ok) return message(form, { kind: saved.error.code === 'conflict' ? 'conflict' : 'problem', text: saved.error.message }, { status: statusFor(saved.error.code) });
 	redirect(303, ctx.dest);
 }
 
@@ -139,7 +140,7 @@ export const actions: Actions = {
 			const form = await superValidate(formData, zod4(observationFormSchema));
 			if (!form.valid) return fail(400, { form });
 			const r = await changeObservation(getDb(), { recipeId: recipe.id, observationId: form.data.observation_id, baseRevision: form.data.revision, userId: user.id, now });
-			if (!r.ok) return message(form, { kind: r.error.code === 'conflict' ? 'conflict' : 'problem', text: r.error.message }, { status: r.error.code === 'conflict' ? 409 : 400 });
+			if (!r.ok) return message(form, { kind: r.error.code === 'conflict' ? 'conflict' : 'problem', text: r.error.message }, { status: statusFor(r.error.code) });
 			redirect(303, target(recipe.id, step, go));
 		}
 		if (step === 'review') {
@@ -150,7 +151,7 @@ export const actions: Actions = {
 			if (!r.ok) {
 				// Keep the edited title and notes as the draft even when the version is refused.
 				if (r.error.code === 'validation_failed') await saveDraft(getDb(), { recipeId: recipe.id, baseRevision: form.data.revision, params, userId: user.id, now });
-				return message(form, { kind: r.error.code === 'conflict' ? 'conflict' : 'problem', text: r.error.message, issues: r.error.issues ?? [] }, { status: r.error.code === 'conflict' ? 409 : 400 });
+				return message(form, { kind: r.error.code === 'conflict' ? 'conflict' : 'problem', text: r.error.message, issues: r.error.issues ?? [] }, { status: statusFor(r.error.code) });
 			}
 			redirect(303, `/recipes/${recipe.id}/versions/${r.value.version}`);
 		}

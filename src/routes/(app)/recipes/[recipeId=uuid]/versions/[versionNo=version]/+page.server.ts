@@ -11,6 +11,8 @@ import { summariseParams, type ParamSummaryRow } from '$lib/workflow/diff/param-
 import { programFilename } from '$lib/script/filename';
 import type { Finding } from '$lib/calibration/validate';
 import type { StepKind } from '$lib/calibration/recipe';
+import { readFormFields, statusFor } from '$lib/server/http';
+import type { DomainError } from '$lib/workflow/errors';
 
 export type VersionPageData = {
 	recipe: { id: string; title: string };
@@ -86,15 +88,9 @@ async function versionFor(event: ActionEvent) {
 	return { v, user };
 }
 
-async function readForm(event: ActionEvent): Promise<Record<string, string>> {
-	const form = await event.request.formData();
-	return Object.fromEntries([...form.entries()].map(([k, x]) => [k, typeof x === 'string' ? x : '']));
-}
-
-function outcome(r: { ok: true } | { ok: false; error: { code: string; message: string } }, done: string) {
+function outcome(r: { ok: true } | { ok: false; error: DomainError }, done: string) {
 	if (r.ok) return { done };
-	const status = r.error.code === 'forbidden' ? 403 : r.error.code === 'conflict' ? 409 : r.error.code === 'not_found' ? 404 : 400;
-	return fail(status, { problem: r.error.message });
+	return fail(statusFor(r.error.code), { problem: r.error.message });
 }
 
 export const actions: Actions = {
@@ -108,19 +104,19 @@ export const actions: Actions = {
 	},
 	approve: async (event) => {
 		const { v, user } = await versionFor(event);
-		const parsed = noteSchema.safeParse(await readForm(event));
+		const parsed = noteSchema.safeParse(await readFormFields(event.request));
 		if (!parsed.success) return fail(400, { problem: parsed.error.issues.map((i) => i.message).join(' ') });
 		return outcome(await decideReview(getDb(), { versionId: v.id, userId: user.id, decision: 'approve', ...(parsed.data.note ? { note: parsed.data.note } : {}) }), 'Approved.');
 	},
 	requestChanges: async (event) => {
 		const { v, user } = await versionFor(event);
-		const parsed = noteSchema.safeParse(await readForm(event));
+		const parsed = noteSchema.safeParse(await readFormFields(event.request));
 		if (!parsed.success) return fail(400, { problem: parsed.error.issues.map((i) => i.message).join(' ') });
 		return outcome(await decideReview(getDb(), { versionId: v.id, userId: user.id, decision: 'request_changes', ...(parsed.data.note ? { note: parsed.data.note } : {}) }), 'Changes requested: the author has been told.');
 	},
 	comment: async (event) => {
 		const { v, user } = await versionFor(event);
-		const parsed = commentSchema.safeParse(await readForm(event));
+		const parsed = commentSchema.safeParse(await readFormFields(event.request));
 		if (!parsed.success) return fail(400, { problem: parsed.error.issues.map((i) => i.message).join(' ') });
 		const r = await addComment(getDb(), { versionId: v.id, userId: user.id, body: parsed.data.body, ...(parsed.data.line ? { programLine: Number(parsed.data.line) } : {}) });
 		return outcome(r, 'Comment added.');
